@@ -1,0 +1,116 @@
+package qg
+
+import "math"
+
+// Grid describes the doubly periodic domain and its spectral representation.
+//
+// Physical fields have Ny rows of Nx points (index y*Nx + x, x fastest).
+// Spectral fields have Ny rows of Nkx = Nx/2+1 zonal wavenumbers (index
+// j*Nkx + i); i is the zonal index (k = 2πi/Lx) and j the meridional one
+// (l = 2πj/Ly for j ≤ Ny/2, 2π(j−Ny)/Ly above). Coefficients are the
+// unnormalised sums of the forward transform, so a field's domain mean of a
+// product is (1/M²)·Σ over the full spectrum with M = Nx·Ny (see Inner).
+type Grid struct {
+	Nx, Ny int
+	Nkx    int     // Nx/2 + 1
+	Lx, Ly float64 // domain size, m
+	Dx, Dy float64 // grid spacing, m
+
+	K  []float64 // zonal wavenumber per column i, rad m⁻¹
+	L  []float64 // meridional wavenumber per row j, rad m⁻¹
+	K2 []float64 // k² + l² per spectral point
+
+	// Keep is 1 on the modes retained by the 2/3 rule (|i| ≤ Nx/3 and
+	// |j| ≤ Ny/3) and 0 elsewhere; the model's state lives on these modes.
+	Keep []float64
+	// Weight is the Hermitian multiplicity of each stored coefficient (1
+	// for i = 0 and i = Nx/2, 2 otherwise) times Keep, divided by M², so that
+	// Σ Weight·Re(a·conj(b)) is the domain mean of the product of two
+	// truncated fields.
+	Weight []float64
+}
+
+// NewGrid builds the grid of a validated configuration.
+func NewGrid(nx, ny int, lx, ly float64) *Grid {
+	nkx := nx/2 + 1
+	g := &Grid{
+		Nx: nx, Ny: ny, Nkx: nkx, Lx: lx, Ly: ly,
+		Dx: lx / float64(nx), Dy: ly / float64(ny),
+		K: make([]float64, nkx), L: make([]float64, ny),
+		K2: make([]float64, ny*nkx), Keep: make([]float64, ny*nkx), Weight: make([]float64, ny*nkx),
+	}
+	for i := range nkx {
+		g.K[i] = 2 * math.Pi * float64(i) / lx
+	}
+	for j := range ny {
+		jj := j
+		if j > ny/2 {
+			jj = j - ny
+		}
+		g.L[j] = 2 * math.Pi * float64(jj) / ly
+	}
+	m := float64(nx) * float64(ny)
+	for j := range ny {
+		jj := j
+		if j > ny/2 {
+			jj = ny - j
+		}
+		for i := range nkx {
+			p := j*nkx + i
+			g.K2[p] = g.K[i]*g.K[i] + g.L[j]*g.L[j]
+			if i <= maxKeptIndex(nx) && jj <= maxKeptIndex(ny) {
+				g.Keep[p] = 1
+			}
+			w := 2.0
+			if i == 0 || i == nx/2 {
+				w = 1
+			}
+			g.Weight[p] = w * g.Keep[p] / (m * m)
+		}
+	}
+	return g
+}
+
+// MaxKeptK returns the magnitude of the largest retained zonal and
+// meridional wavenumbers, rad m⁻¹.
+func (g *Grid) MaxKeptK() (kmax, lmax float64) {
+	return 2 * math.Pi * float64(maxKeptIndex(g.Nx)) / g.Lx, 2 * math.Pi * float64(maxKeptIndex(g.Ny)) / g.Ly
+}
+
+// maxKeptIndex is the largest wavenumber index retained by the 2/3 rule.
+func maxKeptIndex(n int) int {
+	m := n / 3
+	if 3*m == n {
+		m--
+	}
+	return m
+}
+
+// Inner returns the domain mean of a·b for two truncated spectral fields.
+func (g *Grid) Inner(a, b []complex128) float64 {
+	var s float64
+	w := g.Weight[:len(a)]
+	b = b[:len(a)]
+	for p, av := range a {
+		s += w[p] * (real(av)*real(b[p]) + imag(av)*imag(b[p]))
+	}
+	return s
+}
+
+// X returns the x coordinate (m) of column x; Y that of row y.
+func (g *Grid) X(x int) float64 { return float64(x) * g.Dx }
+
+// Y returns the y coordinate (m) of row y.
+func (g *Grid) Y(y int) float64 { return float64(y) * g.Dy }
+
+// PeriodicDistance returns the signed shortest distance from b to a on a
+// circle of length period, in [−period/2, period/2).
+func PeriodicDistance(a, b, period float64) float64 {
+	d := math.Mod(a-b, period)
+	if d < -period/2 {
+		d += period
+	} else if d >= period/2 {
+		d -= period
+	}
+	return d
+}

@@ -1,0 +1,65 @@
+package qg
+
+import "math"
+
+// setSponge precomputes the sponge's damping rate s(x) and its exact
+// per-step factor exp(−s(x)·dt) per grid column.
+func (m *Model) setSponge() {
+	sp := m.cfg.Sponge
+	if sp.Rate == 0 {
+		return
+	}
+	g := m.g
+	m.spongeRate = make([]float64, g.Nx)
+	m.sponge = make([]float64, g.Nx)
+	half := sp.Width / 2
+	for x := range g.Nx {
+		d := PeriodicDistance(g.X(x), sp.X, g.Lx)
+		var s float64
+		if math.Abs(d) < half {
+			s = sp.Rate * 0.5 * (1 + math.Cos(math.Pi*d/half))
+		}
+		m.spongeRate[x] = s
+		m.sponge[x] = math.Exp(-s * m.cfg.Dt)
+	}
+}
+
+// SpongeRate returns the sponge's damping rate s(x) per grid column (s⁻¹),
+// or nil without a sponge.
+func (m *Model) SpongeRate() []float64 { return m.spongeRate }
+
+// applySponge relaxes the state towards its target (the block's PV in the
+// forced and relaxed modes, zero otherwise) by the exact factor
+// exp(−s(x)·dt) on the grid, and returns the energy this changed.
+func (m *Model) applySponge() float64 {
+	e0 := m.energyOf(m.q)
+	g := m.g
+	nx := g.Nx
+	target := m.blk != nil && (m.blk.mode == Forced || m.blk.mode == Relaxed)
+	for n := range 2 {
+		qp := m.qp[n]
+		m.plan.Inverse(qp, m.q[n])
+		forRows(m.workers, g.Ny, func(lo, hi int) {
+			for y := lo; y < hi; y++ {
+				row := qp[y*nx : (y+1)*nx]
+				if target {
+					qb := m.blk.qp[n][y*nx : (y+1)*nx]
+					for x, f := range m.sponge {
+						row[x] = qb[x] + f*(row[x]-qb[x])
+					}
+				} else {
+					for x, f := range m.sponge {
+						row[x] *= f
+					}
+				}
+			}
+		})
+		m.plan.Forward(m.q[n], qp)
+		for p, keep := range g.Keep {
+			if keep == 0 {
+				m.q[n][p] = 0
+			}
+		}
+	}
+	return m.energyOf(m.q) - e0
+}

@@ -1,0 +1,216 @@
+package qg
+
+import (
+	"fmt"
+	"math"
+)
+
+// StepError reports a step that failed: a non-finite field or a CFL number
+// over the limit. The model's state is left as it was before the step.
+type StepError struct {
+	Time  float64 // model time at the start of the failed step, s
+	Step  int     // index of the failed step
+	Field string  // the offending field, e.g. "q1" or "u2"
+	Why   string
+}
+
+func (e *StepError) Error() string {
+	return fmt.Sprintf("qg: step %d at t = %.6g s (%.4g days): %s: %s", e.Step, e.Time, e.Time/86400, e.Field, e.Why)
+}
+
+// Step advances the model by one time step. On error (NaN/Inf, or a CFL
+// number over Config.MaxCFL at the start of the step) the state is restored
+// to what it was before the step, and a *StepError names the time and the
+// field.
+func (m *Model) Step() error {
+	for n := range 2 {
+		copy(m.prev[n], m.q[n])
+	}
+	t0 := m.t
+	var err error
+	switch {
+	case m.cfg.Scheme == AB3 && m.nhist >= 2:
+		err = m.stepAB3()
+	default:
+		err = m.stepRK4()
+	}
+	if err == nil {
+		err = m.afterStep()
+	}
+	if err != nil {
+		for n := range 2 {
+			copy(m.q[n], m.prev[n])
+		}
+		m.inv.InvertAll(m.psi, m.q)
+		m.nhist = 0
+		m.t = t0
+		return err
+	}
+	m.steps++
+	m.t = t0 + m.cfg.Dt
+	return nil
+}
+
+// Run takes n steps, stopping at the first error.
+func (m *Model) Run(n int) error {
+	for range n {
+		if err := m.Step(); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// checkCFL is called after the first stage of a step.
+func (m *Model) checkCFL() error {
+	if m.cfl != m.cfl || math.IsInf(m.cfl, 0) {
+		return &StepError{m.t, m.steps, fmt.Sprintf("u%d", int(m.cflAt[0])), "velocity is not finite"}
+	}
+	if m.cfl > m.cfg.MaxCFL {
+		return &StepError{m.t, m.steps, fmt.Sprintf("u%d", int(m.cflAt[0])),
+			fmt.Sprintf("CFL number %.3g exceeds max_cfl = %g (u = %.4g, v = %.4g m/s)", m.cfl, m.cfg.MaxCFL, m.cflAt[1], m.cflAt[2])}
+	}
+	return nil
+}
+
+// pushHist rotates the AB3 history so that slot 0 is free for the newest
+// tendency, returning it.
+func (m *Model) pushHist() [2][]complex128 {
+	m.hist[0], m.hist[1], m.hist[2] = m.hist[2], m.hist[0], m.hist[1]
+	m.histRates[0], m.histRates[1], m.histRates[2] = m.histRates[2], m.histRates[0], m.histRates[1]
+	return m.hist[0]
+}
+
+// stepRK4 takes one classical RK4 step, keeping the first-stage tendency in
+// the AB3 history.
+func (m *Model) stepRK4() error {
+	dt := m.cfg.Dt
+	q0, qs, acc := m.q, m.qs, m.acc
+	for n := range 2 {
+		copy(acc[n], q0[n])
+	}
+	stages := [4]struct{ c, b float64 }{{0, 1. / 6}, {0.5, 1. / 3}, {0.5, 1. / 3}, {1, 1. / 6}}
+	next := [4]float64{0.5, 0.5, 1, 0}
+	var rates [NumTerms]float64
+	var ledger Ledger
+	in := q0
+	for s, st := range stages {
+		k := m.dq
+		if s == 0 {
+			k = m.pushHist()
+		}
+		m.stage = s == 0
+		m.tendency(k, in, m.psiS, m.t+st.c*dt, &rates)
+		m.stage = false
+		if s == 0 {
+			m.histRates[0] = rates
+			if err := m.checkCFL(); err != nil {
+				return err
+			}
+		}
+		for i, r := range rates {
+			ledger[i] += st.b * dt * r
+		}
+		bdt, cdt := st.b*dt, next[s]*dt
+		last := s == 3
+		g := m.g
+		forRows(m.workers, g.Ny, func(lo, hi int) {
+			a, b := lo*g.Nkx, hi*g.Nkx
+			for n := range 2 {
+				kk, ac, qq, q00 := k[n][a:b], acc[n][a:b], qs[n][a:b], q0[n][a:b]
+				for p := range kk {
+					ac[p] += scale(bdt, kk[p])
+					if !last {
+						qq[p] = q00[p] + scale(cdt, kk[p])
+					}
+				}
+			}
+		})
+		in = qs
+	}
+	for n := range 2 {
+		copy(m.q[n], acc[n])
+	}
+	for i := range ledger {
+		m.ledger[i] += ledger[i]
+	}
+	if m.nhist < 3 {
+		m.nhist++
+	}
+	return nil
+}
+
+// stepAB3 takes one third-order Adams–Bashforth step,
+// q ← q + dt(23 f_n − 16 f_{n−1} + 5 f_{n−2})/12; the energy rates are
+// extrapolated with the same weights.
+func (m *Model) stepAB3() error {
+	dt := m.cfg.Dt
+	k := m.pushHist()
+	var rates [NumTerms]float64
+	m.stage = true
+	m.tendency(k, m.q, m.psiS, m.t, &rates)
+	m.stage = false
+	m.histRates[0] = rates
+	if err := m.checkCFL(); err != nil {
+		return err
+	}
+	c0, c1, c2 := 23*dt/12, -16*dt/12, 5*dt/12
+	for i := range m.ledger {
+		m.ledger[i] += c0*m.histRates[0][i] + c1*m.histRates[1][i] + c2*m.histRates[2][i]
+	}
+	g := m.g
+	forRows(m.workers, g.Ny, func(lo, hi int) {
+		a, b := lo*g.Nkx, hi*g.Nkx
+		for n := range 2 {
+			q, f0, f1, f2 := m.q[n][a:b], m.hist[0][n][a:b], m.hist[1][n][a:b], m.hist[2][n][a:b]
+			for p := range q {
+				q[p] += scale(c0, f0[p]) + scale(c1, f1[p]) + scale(c2, f2[p])
+			}
+		}
+	})
+	return nil
+}
+
+// afterStep applies the split steps (filter, sponge, sources), restores the
+// streamfunction and checks that the state is finite.
+func (m *Model) afterStep() error {
+	if m.filter != nil {
+		m.ledger[TermFilter] += m.applyFilter()
+	}
+	if m.sponge != nil {
+		m.ledger[TermSponge] += m.applySponge()
+	}
+	if len(m.sources) > 0 {
+		m.ledger[TermSource] += m.applySources()
+	}
+	for n := range 2 {
+		var s float64
+		for _, z := range m.q[n] {
+			s += real(z)*real(z) + imag(z)*imag(z)
+		}
+		if math.IsNaN(s) || math.IsInf(s, 0) {
+			return &StepError{m.t, m.steps, fmt.Sprintf("q%d", n+1), "PV is not finite after the step"}
+		}
+	}
+	m.inv.InvertAll(m.psi, m.q)
+	return nil
+}
+
+// applySources adds the sources' increments for the step and returns the
+// energy they injected, E(q + Δq) − E(q) = −Σ_n W_n⟨(ψ_n + ½Δψ_n) Δq_n⟩:
+// the midpoint (Stratonovich) evaluation, exact for a quadratic energy.
+func (m *Model) applySources() float64 {
+	e0 := m.energyOf(m.q)
+	for _, s := range m.sources {
+		for n := range 2 {
+			clear(m.dq[n])
+		}
+		s.Increment(m.dq, m.t, m.cfg.Dt)
+		for n := range 2 {
+			for p, keep := range m.g.Keep {
+				m.q[n][p] += scale(keep, m.dq[n][p])
+			}
+		}
+	}
+	return m.energyOf(m.q) - e0
+}

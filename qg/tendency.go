@@ -1,0 +1,185 @@
+package qg
+
+import "math"
+
+// tendency sets dq to the PV tendency of the state q at time t and psi to
+// its streamfunction, and stores in rates the energy rate (m² s⁻³) of each
+// term of the tendency. The nonlinear term is computed in flux form,
+// J(ψ, q) = ∂x(uq) + ∂y(vq), from gridded u, v, q and truncated by the 2/3
+// rule; every other term is exact in spectral space.
+func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms]float64) {
+	g := m.g
+	nk, nx := g.Nkx, g.Nx
+	forRows(m.workers, g.Ny, func(lo, hi int) { m.inv.Invert(psi, q, lo*nk, hi*nk) })
+	for j := range m.rowRates {
+		m.rowRates[j] = [NumTerms]float64{}
+	}
+	fixed := m.blk != nil && m.blk.mode == Fixed
+	relaxed := m.blk != nil && m.blk.mode == Relaxed
+	var force [2][]complex128
+	if m.blk != nil && m.blk.force[0] != nil {
+		force = m.blk.force
+	}
+	for n := range 2 {
+		m.velocity(m.u[n], m.v[n], psi[n])
+		m.plan.Inverse(m.qp[n], q[n])
+		u, v, qg, fu, fv := m.u[n], m.v[n], m.qp[n], m.fu, m.fv
+		U := m.ph.U1
+		if n == 1 {
+			U = m.ph.U2
+		}
+		first := m.stage
+		forRows(m.workers, g.Ny, func(lo, hi int) {
+			for y := lo; y < hi; y++ {
+				var cmax, cu, cv float64
+				r := y * nx
+				if fixed {
+					ub, vb, qb := m.blk.u[n][r:r+nx], m.blk.v[n][r:r+nx], m.blk.qp[n][r:r+nx]
+					for x := range nx {
+						p := r + x
+						if m.blk.linear {
+							fu[p] = ub[x]*qg[p] + u[p]*qb[x]
+							fv[p] = vb[x]*qg[p] + v[p]*qb[x]
+						} else {
+							ut, vt, qt := u[p]+ub[x], v[p]+vb[x], qg[p]+qb[x]
+							fu[p] = ut*qt - ub[x]*qb[x]
+							fv[p] = vt*qt - vb[x]*qb[x]
+						}
+						if first {
+							ut, vt := u[p]+ub[x]+U, v[p]+vb[x]
+							if c := math.Abs(ut)/g.Dx + math.Abs(vt)/g.Dy; c > cmax || c != c {
+								cmax, cu, cv = c, ut, vt
+							}
+						}
+					}
+				} else {
+					uu, vv, qq, ffu, ffv := u[r:r+nx], v[r:r+nx], qg[r:r+nx], fu[r:r+nx], fv[r:r+nx]
+					for x := range uu {
+						ffu[x] = uu[x] * qq[x]
+						ffv[x] = vv[x] * qq[x]
+					}
+					if first {
+						for x := range uu {
+							if c := math.Abs(uu[x]+U)/g.Dx + math.Abs(vv[x])/g.Dy; c > cmax || c != c {
+								cmax, cu, cv = c, uu[x]+U, vv[x]
+							}
+						}
+					}
+				}
+				if first && (n == 0 || cmax > m.rowCFL[y] || cmax != cmax) {
+					m.rowCFL[y] = cmax
+					m.rowCFLAt[y] = [3]float64{float64(n + 1), cu, cv}
+				}
+			}
+		})
+		fuh, fvh := m.specA, m.specB
+		m.plan.Forward(fuh, fu)
+		m.plan.Forward(fvh, fv)
+
+		w := m.ph.W1
+		qy := m.ph.Q1y
+		drag := 0.0
+		if n == 1 {
+			w, qy, drag = m.ph.W2, m.ph.Q2y, m.cfg.Drag
+		}
+		qn, pn, dn := q[n], psi[n], dq[n]
+		var qb, fn []complex128
+		if relaxed {
+			qb = m.blk.q[n]
+		}
+		if force[n] != nil {
+			fn = force[n]
+		}
+		hyper := m.hyper
+		forRows(m.workers, g.Ny, func(lo, hi int) {
+			for j := lo; j < hi; j++ {
+				l := g.L[j]
+				var rAdv, rShear, rDrag, rHyp, rRel, rG float64
+				for i := range nk {
+					p := j*nk + i
+					keep := g.Keep[p]
+					if keep == 0 {
+						dn[p] = 0
+						continue
+					}
+					k := g.K[i]
+					ps, qq := pn[p], qn[p]
+					adv := -(mulI(k, fuh[p]) + mulI(l, fvh[p]))
+					shear := -(mulI(k*U, qq) + mulI(k*qy, ps))
+					tot := adv + shear
+					wp := g.Weight[p]
+					rAdv += wp * dot(ps, adv)
+					rShear += wp * dot(ps, shear)
+					if drag != 0 {
+						d := scale(drag*g.K2[p], ps)
+						tot += d
+						rDrag += wp * dot(ps, d)
+					}
+					if hyper != nil {
+						h := scale(-hyper[p], qq)
+						tot += h
+						rHyp += wp * dot(ps, h)
+					}
+					if qb != nil {
+						rl := scale(-1/m.blk.tau, qq-qb[p])
+						tot += rl
+						rRel += wp * dot(ps, rl)
+					}
+					if fn != nil {
+						tot += fn[p]
+						rG += wp * dot(ps, fn[p])
+					}
+					dn[p] = tot
+				}
+				rr := &m.rowRates[j]
+				rr[TermAdvection] -= w * rAdv
+				rr[TermShear] -= w * rShear
+				rr[TermDrag] -= w * rDrag
+				rr[TermHyperviscosity] -= w * rHyp
+				rr[TermRelaxation] -= w * rRel
+				rr[TermBlockForcing] -= w * rG
+			}
+		})
+	}
+	*rates = [NumTerms]float64{}
+	for j := range m.rowRates {
+		for k, r := range m.rowRates[j] {
+			rates[k] += r
+		}
+	}
+	if len(m.forcings) > 0 {
+		for n := range 2 {
+			clear(m.fbuf[n])
+		}
+		for _, f := range m.forcings {
+			f.AddTendency(m.fbuf, t)
+		}
+		var r float64
+		for n := range 2 {
+			w := m.ph.W1
+			if n == 1 {
+				w = m.ph.W2
+			}
+			for p, keep := range g.Keep {
+				if keep == 0 {
+					continue
+				}
+				dq[n][p] += m.fbuf[n][p]
+				r -= w * g.Weight[p] * dot(psi[n][p], m.fbuf[n][p])
+			}
+		}
+		rates[TermForcing] = r
+	}
+	if m.stage {
+		m.cfl, m.cflAt = 0, [3]float64{}
+		for y, c := range m.rowCFL {
+			if c > m.cfl || c != c {
+				m.cfl, m.cflAt = c, m.rowCFLAt[y]
+				if c != c {
+					break
+				}
+			}
+		}
+		m.cfl *= m.cfg.Dt
+	}
+}
