@@ -66,9 +66,9 @@ type Model struct {
 	rowCFLAt     [][3]float64
 	fbuf         [2][]complex128
 
-	hyper  []float64 // ν K^(2p) per mode, hyperviscosity
-	filter []float64 // exp(−λ(k) dt) per mode, cutoff filter
-	sponge []float64 // exp(−s(x) dt) per grid column, nil without a sponge
+	hyper      []float64 // ν K^(2p) per mode, hyperviscosity
+	filter     []float64 // exp(−λ(k) dt) per mode, cutoff filter
+	sponge     []float64 // exp(−s(x) dt) per grid column, nil without a sponge
 	spongeRate []float64
 
 	ledger Ledger

@@ -2,25 +2,42 @@ package fft
 
 import (
 	"fmt"
-
-	"gonum.org/v1/gonum/dsp/fourier"
+	"math"
+	"sync"
 )
 
 // Plan2D transforms an ny×nx real field stored row-major (x fastest, index y*nx+x) to and from
 // ny×(nx/2+1) complex coefficients stored row-major (kx fastest, index j*(nx/2+1)+i), where
 // i = 0..nx/2 is the zonal wavenumber index and j = 0..ny-1 the meridional one (j > ny/2 are negative).
 //
-// A Plan2D is not safe for concurrent use: it owns its scratch buffers.
+// A Plan2D owns its scratch buffers and is not safe for concurrent use: give each goroutine its own plan.
+// Forward and Inverse panic if a slice has the wrong length.
 type Plan2D struct {
 	nx, ny, workers int
-	rows            *fourier.FFT
-	cols            *fourier.CmplxFFT
-	col             []complex128
-	row             []float64
+	h, w            int // nx/2 and nx/2+1
+
+	xb batch // length h along x, batch of ny (zonal transforms, transposed layout [k][y])
+	yb batch // length ny along y, batch of w (meridional transforms, layout [j][i])
+
+	fpost []complex128 // forward post-processing weights 0.5·exp(−2πik/nx), k = 0..h/2
+	ipre  []complex128 // inverse pre-processing weights 0.5·c·exp(−2πik/nx), c = 1/(ny·h)
+	ihalf float64      // 0.5·c
+
+	a, b, c []complex128 // scratch, each ny·w
+
+	// per-call arguments for the worker goroutines
+	fsrc []float64
+	fdst []complex128
+	isrc []complex128
+	idst []float64
+	mid  []complex128 // buffer handed from phase 1 to phase 2
+
+	wg    sync.WaitGroup
+	tasks [4][]func() // goroutine bodies for workers 1..workers-1: fwd1, fwd2, inv1, inv2
 }
 
-// NewPlan2D makes a plan for nx, ny powers of two, each >= 4.
-// workers >= 1 is the number of goroutines a transform may use.
+// NewPlan2D makes a plan for nx, ny powers of two, each >= 4. workers >= 1 is the number of goroutines a
+// transform may use; results are bit-identical for any number of workers.
 func NewPlan2D(nx, ny, workers int) (*Plan2D, error) {
 	if err := checkSize("nx", nx); err != nil {
 		return nil, err
@@ -31,13 +48,39 @@ func NewPlan2D(nx, ny, workers int) (*Plan2D, error) {
 	if workers < 1 {
 		return nil, fmt.Errorf("fft: workers = %d, want >= 1", workers)
 	}
-	return &Plan2D{
-		nx: nx, ny: ny, workers: workers,
-		rows: fourier.NewFFT(nx),
-		cols: fourier.NewCmplxFFT(ny),
-		col:  make([]complex128, ny),
-		row:  make([]float64, nx),
-	}, nil
+	h := nx / 2
+	w := h + 1
+	p := &Plan2D{
+		nx: nx, ny: ny, workers: workers, h: h, w: w,
+		xb: newBatch(h, ny),
+		yb: newBatch(ny, w),
+		a:  make([]complex128, ny*w),
+		b:  make([]complex128, ny*w),
+		c:  make([]complex128, ny*w),
+	}
+	scale := 1 / float64(ny*h)
+	p.ihalf = 0.5 * scale
+	for k := 0; k <= h/2; k++ {
+		sin, cos := math.Sincos(-2 * math.Pi * float64(k) / float64(nx))
+		p.fpost = append(p.fpost, complex(0.5*cos, 0.5*sin))
+		p.ipre = append(p.ipre, complex(0.5*scale*cos, 0.5*scale*sin))
+	}
+	for ph := range p.tasks {
+		p.tasks[ph] = make([]func(), workers)
+		for k := 1; k < workers; k++ {
+			switch ph {
+			case 0:
+				p.tasks[ph][k] = func() { p.forward1(k); p.wg.Done() }
+			case 1:
+				p.tasks[ph][k] = func() { p.forward2(k); p.wg.Done() }
+			case 2:
+				p.tasks[ph][k] = func() { p.inverse1(k); p.wg.Done() }
+			case 3:
+				p.tasks[ph][k] = func() { p.inverse2(k); p.wg.Done() }
+			}
+		}
+	}
+	return p, nil
 }
 
 func checkSize(name string, n int) error {
@@ -56,50 +99,119 @@ func (p *Plan2D) Ny() int { return p.ny }
 // Workers returns the number of goroutines a transform may use.
 func (p *Plan2D) Workers() int { return p.workers }
 
-// Forward computes the unnormalised forward transform of src into dst.
-func (p *Plan2D) Forward(dst []complex128, src []float64) {
-	nx, ny, w := p.nx, p.ny, p.nx/2+1
-	if len(src) != nx*ny || len(dst) != ny*w {
-		panic("fft: bad slice length")
-	}
-	for y := 0; y < ny; y++ {
-		p.rows.Coefficients(dst[y*w:(y+1)*w], src[y*nx:(y+1)*nx])
-	}
-	for i := 0; i < w; i++ {
-		for j := 0; j < ny; j++ {
-			p.col[j] = dst[j*w+i]
-		}
-		p.cols.Coefficients(p.col, p.col)
-		for j := 0; j < ny; j++ {
-			dst[j*w+i] = p.col[j]
-		}
-	}
+// span returns worker k's share [lo, hi) of n items.
+func (p *Plan2D) span(k, n int) (int, int) {
+	return k * n / p.workers, (k + 1) * n / p.workers
 }
 
-// Inverse computes the normalised inverse transform of src into dst.
+// parallel runs phase ph on all workers and waits for them.
+func (p *Plan2D) parallel(ph int, self func(int)) {
+	if p.workers == 1 {
+		self(0)
+		return
+	}
+	p.wg.Add(p.workers - 1)
+	for k := 1; k < p.workers; k++ {
+		go p.tasks[ph][k]()
+	}
+	self(0)
+	p.wg.Wait()
+}
+
+// Forward computes dst[j*(nx/2+1)+i] = Σ_y Σ_x src[y*nx+x]·exp(−2πi(i·x/nx + j·y/ny)) (unnormalised).
+// src is not modified. It panics unless len(src) = nx·ny and len(dst) = ny·(nx/2+1).
+func (p *Plan2D) Forward(dst []complex128, src []float64) {
+	if len(src) != p.nx*p.ny {
+		panic(fmt.Sprintf("fft: Forward: len(src) = %d, want nx·ny = %d", len(src), p.nx*p.ny))
+	}
+	if len(dst) != p.ny*p.w {
+		panic(fmt.Sprintf("fft: Forward: len(dst) = %d, want ny·(nx/2+1) = %d", len(dst), p.ny*p.w))
+	}
+	p.fsrc, p.fdst = src, dst
+	p.mid = dst // start of the meridional stages (see forward1)
+	if len(p.yb.stages)%2 == 1 {
+		p.mid = p.c
+	}
+	p.parallel(0, p.forward1)
+	p.parallel(1, p.forward2)
+	p.fsrc, p.fdst, p.mid = nil, nil, nil
+}
+
+// forward1: pack rows y of worker k as complex pairs, zonal transforms, real-to-complex post-processing
+// into the [j][i] layout.
+func (p *Plan2D) forward1(k int) {
+	y0, y1 := p.span(k, p.ny)
+	if y0 == y1 {
+		return
+	}
+	packT(p.a, p.fsrc, p.nx, p.ny, y0, y1)
+	f := p.xb.run(p.a, p.b, p.a, y0, y1, false)
+	// The meridional stages start in g and must end in dst. g must not be a or b, which other workers
+	// may still be using for their zonal stages.
+	g := p.mid
+	postT(g, f, p.fpost, p.h, p.ny, y0, y1)
+}
+
+// forward2: meridional transforms of the columns i of worker k.
+func (p *Plan2D) forward2(k int) {
+	i0, i1 := p.span(k, p.w)
+	if i0 == i1 {
+		return
+	}
+	g := p.mid
+	other := p.fdst
+	if &g[0] == &p.fdst[0] {
+		other = p.a
+	}
+	p.yb.run(g, other, g, i0, i1, false)
+}
+
+// Inverse computes dst[y*nx+x] = (1/(nx·ny)) Σ_j Σ_i c[j][i]·exp(2πi(i·x/nx + j·y/ny)), the sum running
+// over the full Hermitian spectrum (c[j][nx−i] = conj(c[(ny−j) mod ny][i]) for 0 < i < nx/2), so
+// Inverse(Forward(f)) = f. src is not modified. The result is the real part of that sum: the imaginary
+// parts that must vanish for a real field are dropped after the meridional transform of the i = 0 and
+// i = nx/2 columns, which is the same as replacing those two columns by their Hermitian-symmetric parts
+// (c[j][i] + conj(c[−j][i]))/2 (so the imaginary parts of the self-conjugate entries j = 0, ny/2 are
+// ignored). It panics unless len(src) = ny·(nx/2+1) and len(dst) = nx·ny.
 func (p *Plan2D) Inverse(dst []float64, src []complex128) {
-	nx, ny, w := p.nx, p.ny, p.nx/2+1
-	if len(dst) != nx*ny || len(src) != ny*w {
-		panic("fft: bad slice length")
+	if len(src) != p.ny*p.w {
+		panic(fmt.Sprintf("fft: Inverse: len(src) = %d, want ny·(nx/2+1) = %d", len(src), p.ny*p.w))
 	}
-	tmp := make([]complex128, ny*w)
-	for i := 0; i < w; i++ {
-		for j := 0; j < ny; j++ {
-			p.col[j] = src[j*w+i]
-		}
-		p.cols.Sequence(p.col, p.col)
-		for j := 0; j < ny; j++ {
-			tmp[j*w+i] = complex(real(p.col[j]), 0)
-			if i != 0 && i != nx/2 {
-				tmp[j*w+i] = p.col[j]
-			}
-		}
+	if len(dst) != p.nx*p.ny {
+		panic(fmt.Sprintf("fft: Inverse: len(dst) = %d, want nx·ny = %d", len(dst), p.nx*p.ny))
 	}
-	s := 1 / float64(nx*ny)
-	for y := 0; y < ny; y++ {
-		p.rows.Sequence(dst[y*nx:(y+1)*nx], tmp[y*w:(y+1)*w])
-		for x := y * nx; x < (y+1)*nx; x++ {
-			dst[x] *= s
-		}
+	p.isrc, p.idst = src, dst
+	p.mid = p.b // result of the meridional stages (see batch.run)
+	if len(p.yb.stages)%2 == 1 {
+		p.mid = p.a
 	}
+	p.parallel(2, p.inverse1)
+	p.parallel(3, p.inverse2)
+	p.isrc, p.idst, p.mid = nil, nil, nil
+}
+
+// inverse1: meridional inverse transforms of the columns i of worker k (src → a/b).
+func (p *Plan2D) inverse1(k int) {
+	i0, i1 := p.span(k, p.w)
+	if i0 == i1 {
+		return
+	}
+	p.yb.run(p.isrc, p.a, p.b, i0, i1, true)
+}
+
+// inverse2: complex-to-real pre-processing into the transposed [k][y] layout, zonal inverse transforms and
+// unpacking of rows y of worker k.
+func (p *Plan2D) inverse2(k int) {
+	y0, y1 := p.span(k, p.ny)
+	if y0 == y1 {
+		return
+	}
+	f := p.mid
+	g := p.a
+	if &f[0] == &p.a[0] {
+		g = p.b
+	}
+	preT(g, f, p.ipre, p.ihalf, p.h, p.ny, y0, y1)
+	r := p.xb.run(g, p.c, g, y0, y1, true)
+	unpackT(p.idst, r, p.nx, p.ny, y0, y1)
 }
