@@ -37,7 +37,7 @@
 // The layout follows the physics: config.go (parameters and validation),
 // grid.go (wavenumbers and spectral operators), invert.go (PV inversion),
 // tendency.go (advection, background flow, drag, dissipation, forcings),
-// block.go (block modes), sponge.go, filter.go, step.go (RK4 and AB3),
+// block.go (block modes), sponge.go, dissipation.go (filter and hyperviscosity), terms.go (the tendency of each term, for diagnostics), step.go (RK4 and AB3),
 // energy.go (energy, enstrophy and the ledger) and model.go (the Model type
 // that ties them together, CFL and finiteness checks).
 //

@@ -1,0 +1,162 @@
+package qg
+
+import (
+	"fmt"
+	"math"
+)
+
+// TermTendency sets dst to the PV tendency (s⁻², spectral) that a single
+// term of the model's equations gives for an arbitrary spectral PV state q at
+// time t. It serves diagnostics, e.g. the tendency of the block's dissipation
+// or of the mean-flow terms evaluated on a time-mean state. The terms are:
+//
+//   - TermAdvection: −J(ψ, q); in the fixed mode, q is the eddy PV and the
+//     term is −[J(ψ_B, q) + J(ψ, q_B) + J(ψ, q)] (without the last part
+//     when Block.Linear);
+//   - TermShear: −U_n ∂x q_n − Q_ny ∂x ψ_n;
+//   - TermDrag: −r_ek ∇²ψ2 on the lower layer;
+//   - TermHyperviscosity: −ν(−∇²)^p q;
+//   - TermFilter: the cutoff filter's equivalent rate, −λ(k) q̂;
+//   - TermSponge: −s(x)(q − target), the target being q_B in the forced and
+//     relaxed modes and zero otherwise;
+//   - TermRelaxation: −(q − q_B)/τ_r in the relaxed mode;
+//   - TermBlockForcing: the steady forcing G of the forced mode;
+//   - TermForcing: the sum of the deterministic Forcings at time t.
+//
+// Terms that are not active in the model's configuration give zero.
+// TermSource is stochastic and has no tendency: it is an error. It uses the
+// model's work buffers, so it must not be called during a step.
+func (m *Model) TermTendency(term Term, dst, q [2][]complex128, t float64) error {
+	g := m.g
+	ns := len(g.K2)
+	for n := range 2 {
+		if len(dst[n]) != ns || len(q[n]) != ns {
+			return fmt.Errorf("qg: TermTendency: layer %d has %d and %d points, the grid needs %d", n+1, len(dst[n]), len(q[n]), ns)
+		}
+		clear(dst[n])
+	}
+	psi := m.psiS
+	m.inv.InvertAll(psi, q)
+	blk := m.blk
+	switch term {
+	case TermAdvection:
+		for n := range 2 {
+			m.advection(dst[n], n, psi[n], q[n])
+		}
+	case TermShear:
+		qy := [2]float64{m.ph.Q1y, m.ph.Q2y}
+		us := [2]float64{m.ph.U1, m.ph.U2}
+		for n := range 2 {
+			for p := range ns {
+				k := g.K[p%g.Nkx] * g.Keep[p]
+				dst[n][p] = -(mulI(k*us[n], q[n][p]) + mulI(k*qy[n], psi[n][p]))
+			}
+		}
+	case TermDrag:
+		for p := range ns {
+			dst[1][p] = scale(m.cfg.Drag*g.K2[p]*g.Keep[p], psi[1][p])
+		}
+	case TermHyperviscosity:
+		if m.hyper != nil {
+			for n := range 2 {
+				for p := range ns {
+					dst[n][p] = scale(-m.hyper[p], q[n][p])
+				}
+			}
+		}
+	case TermFilter:
+		if m.filter != nil {
+			for n := range 2 {
+				for p := range ns {
+					if f := m.filter[p]; f > 0 && f < 1 {
+						// λ = −ln(f)/dt recovers the filter's rate exactly.
+						dst[n][p] = scale(lnRate(f, m.cfg.Dt), q[n][p])
+					}
+				}
+			}
+		}
+	case TermSponge:
+		if m.sponge != nil {
+			target := blk != nil && (blk.mode == Forced || blk.mode == Relaxed)
+			for n := range 2 {
+				m.plan.Inverse(m.qp[n], q[n])
+				qp := m.qp[n]
+				for y := range g.Ny {
+					for x := range g.Nx {
+						i := y*g.Nx + x
+						d := qp[i]
+						if target {
+							d -= blk.qp[n][i]
+						}
+						m.fu[i] = -m.spongeRate[x] * d
+					}
+				}
+				m.plan.Forward(dst[n], m.fu)
+				for p := range ns {
+					dst[n][p] = scale(g.Keep[p], dst[n][p])
+				}
+			}
+		}
+	case TermRelaxation:
+		if blk != nil && blk.mode == Relaxed {
+			for n := range 2 {
+				for p := range ns {
+					dst[n][p] = scale(-1/blk.tau, q[n][p]-blk.q[n][p])
+				}
+			}
+		}
+	case TermBlockForcing:
+		if blk != nil && blk.force[0] != nil {
+			for n := range 2 {
+				copy(dst[n], blk.force[n])
+			}
+		}
+	case TermForcing:
+		for _, f := range m.forcings {
+			f.AddTendency(dst, t)
+		}
+		for n := range 2 {
+			for p := range ns {
+				dst[n][p] = scale(g.Keep[p], dst[n][p])
+			}
+		}
+	case TermSource:
+		return fmt.Errorf("qg: TermTendency: %v is stochastic and has no tendency", term)
+	default:
+		return fmt.Errorf("qg: TermTendency: unknown term %d", int(term))
+	}
+	return nil
+}
+
+// lnRate returns the rate −ln(f)/dt as a negative tendency coefficient.
+func lnRate(f, dt float64) float64 { return math.Log(f) / dt }
+
+// advection sets dst to the advective PV tendency of layer n, in flux form
+// and truncated, including the fixed block's background when there is one.
+func (m *Model) advection(dst []complex128, n int, psi, q []complex128) {
+	g := m.g
+	u, v, qg := m.u[n], m.v[n], m.qp[n]
+	m.velocity(u, v, psi)
+	m.plan.Inverse(qg, q)
+	b := m.blk
+	fixed := b != nil && b.mode == Fixed
+	for i := range u {
+		switch {
+		case fixed && b.linear:
+			m.fu[i] = b.u[n][i]*qg[i] + u[i]*b.qp[n][i]
+			m.fv[i] = b.v[n][i]*qg[i] + v[i]*b.qp[n][i]
+		case fixed:
+			m.fu[i] = b.u[n][i]*qg[i] + u[i]*b.qp[n][i] + u[i]*qg[i]
+			m.fv[i] = b.v[n][i]*qg[i] + v[i]*b.qp[n][i] + v[i]*qg[i]
+		default:
+			m.fu[i] = u[i] * qg[i]
+			m.fv[i] = v[i] * qg[i]
+		}
+	}
+	m.plan.Forward(m.specA, m.fu)
+	m.plan.Forward(m.specB, m.fv)
+	for p := range dst {
+		i, j := p%g.Nkx, p/g.Nkx
+		dst[p] = scale(-g.Keep[p], mulI(g.K[i], m.specA[p])+mulI(g.L[j], m.specB[p]))
+	}
+}
