@@ -16,7 +16,8 @@ type Plan2D struct {
 	nx, ny, workers int
 	h, w            int // nx/2 and nx/2+1
 
-	xb batch // length h along x, batch of ny (zonal transforms, transposed layout [k][y])
+	xb batch // length h along x, batch of ny (zonal transforms, transposed layout [k][y], row stride ld)
+	ld int   // ny plus one cache line, so the transposed rows are not a power of two bytes apart
 	yb batch // length ny along y, batch of w (meridional transforms, layout [j][i])
 
 	fpost []complex128 // forward post-processing weights 0.5·exp(−2πik/nx), k = 0..h/2
@@ -52,12 +53,14 @@ func NewPlan2D(nx, ny, workers int) (*Plan2D, error) {
 	w := h + 1
 	p := &Plan2D{
 		nx: nx, ny: ny, workers: workers, h: h, w: w,
-		xb: newBatch(h, ny),
+		ld: ny + 4,
 		yb: newBatch(ny, w),
-		a:  make([]complex128, ny*w),
-		b:  make([]complex128, ny*w),
-		c:  make([]complex128, ny*w),
 	}
+	p.xb = newBatch(h, p.ld)
+	size := max(ny*w, h*p.ld)
+	p.a = make([]complex128, size)
+	p.b = make([]complex128, size)
+	p.c = make([]complex128, size)
 	scale := 1 / float64(ny*h)
 	p.ihalf = 0.5 * scale
 	for k := 0; k <= h/2; k++ {
@@ -144,12 +147,12 @@ func (p *Plan2D) forward1(k int) {
 	if y0 == y1 {
 		return
 	}
-	packT(p.a, p.fsrc, p.nx, p.ny, y0, y1)
+	packT(p.a, p.fsrc, p.nx, p.ld, y0, y1)
 	f := p.xb.run(p.a, p.b, p.a, y0, y1, false)
 	// The meridional stages start in g and must end in dst. g must not be a or b, which other workers
 	// may still be using for their zonal stages.
 	g := p.mid
-	postT(g, f, p.fpost, p.h, p.ny, y0, y1)
+	postT(g, f, p.fpost, p.h, p.ld, y0, y1)
 }
 
 // forward2: meridional transforms of the columns i of worker k.
@@ -211,7 +214,7 @@ func (p *Plan2D) inverse2(k int) {
 	if &f[0] == &p.a[0] {
 		g = p.b
 	}
-	preT(g, f, p.ipre, p.ihalf, p.h, p.ny, y0, y1)
+	preT(g, f, p.ipre, p.ihalf, p.h, p.ld, y0, y1)
 	r := p.xb.run(g, p.c, g, y0, y1, true)
-	unpackT(p.idst, r, p.nx, p.ny, y0, y1)
+	unpackT(p.idst, r, p.nx, p.ld, y0, y1)
 }
