@@ -51,9 +51,9 @@ type blockState struct {
 // cutoff filter leaves untouched, so that the scale-selective dissipation
 // does not act on it; this is exact in practice for blocks resolved by
 // several grid lengths. In the forced mode the steady forcing
-// G = −(tendency of the model at q = q_B) is computed here, with every term
-// of the model (advection, imposed flow, drag, hyperviscosity and the
-// deterministic Forcings at time t = the current model time) included.
+// G = −(tendency of the model at q = q_B) is computed here from the block's
+// own advection, the imposed flow and background PV gradients, drag and
+// hyperviscosity; Forcings and Sources (a wave source) are not balanced.
 func (m *Model) SetBlock(b Block) error {
 	switch b.Mode {
 	case Fixed, Forced, Free:
@@ -105,9 +105,14 @@ func (m *Model) SetBlock(b Block) error {
 	m.nhist = 0
 	if b.Mode == Forced {
 		// The forcing is the negative of the model's own tendency at q_B.
+		// The user's Forcings (a wave source) are left out: G balances only
+		// the block's own advection, the background terms and dissipation.
 		m.blk.force = [2][]complex128{}
+		saved := m.forcings
+		m.forcings = nil
 		var rates [NumTerms]float64
 		m.tendency(m.dq, m.q, m.psiS, m.t, &rates)
+		m.forcings = saved
 		bs.force = [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
 		for n := range 2 {
 			for p := range ns {
