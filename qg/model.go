@@ -176,11 +176,14 @@ func (m *Model) SetSpectralPV(q [2][]complex128) error {
 		if len(q[n]) != ns {
 			return fmt.Errorf("qg: spectral PV of layer %d has %d points, the grid needs %d", n+1, len(q[n]), ns)
 		}
-		for p := range ns {
-			z := q[n][p]
+		for p, z := range q[n] {
 			if math.IsNaN(real(z)) || math.IsNaN(imag(z)) || math.IsInf(real(z), 0) || math.IsInf(imag(z), 0) {
 				return fmt.Errorf("qg: spectral PV of layer %d is not finite at point %d", n+1, p)
 			}
+		}
+	}
+	for n := range 2 {
+		for p, z := range q[n] {
 			m.q[n][p] = scale(m.g.Keep[p], z)
 		}
 	}
