@@ -18,7 +18,7 @@ func shiftCorrelation(g *qg.Grid, a, b []complex128, sx, sy float64) float64 {
 			continue
 		}
 		k, l := g.K[p%g.Nkx], g.L[p/g.Nkx]
-		z := b[p] * cmplx.Exp(complex(0, -(k*sx + l*sy)))
+		z := b[p] * cmplx.Exp(complex(0, -(k*sx+l*sy)))
 		s += w * (real(a[p])*real(z) + imag(a[p])*imag(z))
 	}
 	return s
