@@ -1,0 +1,162 @@
+package diag
+
+import (
+	"eddyblock/qg"
+)
+
+// eddyMoments holds the gridded eddy second moments of one layer, m s⁻¹
+// times the other variable's unit: u′u′, v′v′, u′v′, u′ζ′, v′ζ′,
+// u′(ψ1 − ψ2)′, v′(ψ1 − ψ2)′, u′q′, v′q′.
+type eddyMoments struct {
+	uu, vv, uv, uz, vz, ut, vt, uq, vq []float64
+}
+
+// analysis is everything derived from the accumulators at one time.
+type analysis struct {
+	mom                [2]eddyMoments
+	conv, convZ, conv2 [2][]complex128 // C, its vorticity part and interface part (spectral PV tendencies)
+	psit, psitZ, psit2 [2][]complex128 // their streamfunction tendencies
+	refPsi, refQ       [2][]complex128 // the reference state
+}
+
+// moments returns the eddy second moments of layer n: the co-moments over N
+// (departures from the window mean), plus the products of the means when
+// the eddies are the state itself (fixed mode).
+func (a *Accumulator) moments(n int) eddyMoments {
+	np := len(a.tau)
+	w := 1 / float64(a.n)
+	mk := func(c, x, y []float64, yOff []float64) []float64 {
+		f := make([]float64, np)
+		for i := range f {
+			f[i] = c[i] * w
+			if a.raw {
+				yv := y[i]
+				if yOff != nil {
+					yv -= yOff[i]
+				}
+				f[i] += x[i] * yv
+			}
+		}
+		return f
+	}
+	mu, mv, mz, mq := a.mU[n], a.mV[n], a.mZ[n], a.mQ[n]
+	mp1, mp2 := a.mPsi[0], a.mPsi[1]
+	return eddyMoments{
+		uu: mk(a.cUU[n], mu, mu, nil),
+		vv: mk(a.cVV[n], mv, mv, nil),
+		uv: mk(a.cUV[n], mu, mv, nil),
+		uz: mk(a.cUZ[n], mu, mz, nil),
+		vz: mk(a.cVZ[n], mv, mz, nil),
+		ut: mk(a.cUT[n], mu, mp1, mp2),
+		vt: mk(a.cVT[n], mv, mp1, mp2),
+		uq: mk(a.cUQ[n], mu, mq, nil),
+		vq: mk(a.cVQ[n], mv, mq, nil),
+	}
+}
+
+// convergence sets dst to −∇·(fx, fy), spectral, truncated to the retained
+// modes.
+func (a *Accumulator) convergence(dst []complex128, fx, fy []float64) {
+	g := a.g
+	nk := g.Nkx
+	fxh := make([]complex128, len(dst))
+	a.plan.Forward(fxh, fx)
+	a.plan.Forward(dst, fy)
+	for p := range dst {
+		dst[p] = complex(-g.Keep[p], 0) * (mulI(g.K[p%nk], fxh[p]) + mulI(g.L[p/nk], dst[p]))
+	}
+}
+
+// analyse derives the eddy fluxes, their convergences and the tendencies
+// they induce, and the reference state.
+func (a *Accumulator) analyse() *analysis {
+	ns := len(a.g.K2)
+	an := &analysis{}
+	pair := func() [2][]complex128 { return [2][]complex128{make([]complex128, ns), make([]complex128, ns)} }
+	an.conv, an.convZ, an.conv2 = pair(), pair(), pair()
+	an.psit, an.psitZ, an.psit2 = pair(), pair(), pair()
+	f := [2]float64{-a.ph.F1, a.ph.F2} // F_n (ψ_m − ψ_n) = ∓F_n (ψ1 − ψ2)
+	for n := range 2 {
+		mo := a.moments(n)
+		an.mom[n] = mo
+		a.convergence(an.conv[n], mo.uq, mo.vq)
+		a.convergence(an.convZ[n], mo.uz, mo.vz)
+		a.convergence(an.conv2[n], mo.ut, mo.vt)
+		for p := range an.conv2[n] {
+			an.conv2[n][p] *= complex(f[n], 0)
+		}
+	}
+	inv := a.m.Inverter()
+	inv.InvertAll(an.psit, an.conv)
+	inv.InvertAll(an.psitZ, an.convZ)
+	inv.InvertAll(an.psit2, an.conv2)
+
+	an.refPsi, an.refQ = pair(), pair()
+	switch {
+	case a.raw:
+		copy(an.refPsi[0], a.blkPsi[0])
+		copy(an.refPsi[1], a.blkPsi[1])
+	case a.mode == qg.Fixed:
+		for n := range 2 {
+			for p := range ns {
+				an.refPsi[n][p] = a.blkPsi[n][p] + a.sMean[n][p]
+			}
+		}
+	default:
+		copy(an.refPsi[0], a.sMean[0])
+		copy(an.refPsi[1], a.sMean[1])
+	}
+	inv.PV(an.refQ, an.refPsi)
+	return an
+}
+
+// jacobian sets dst to −J(ψ, q) = −∇·(u q), spectral and truncated, for
+// spectral ψ and q of one layer.
+func (a *Accumulator) jacobian(dst, psi, q []complex128) {
+	g := a.g
+	nk := g.Nkx
+	np := len(a.tau)
+	u, v, qq := make([]float64, np), make([]float64, np), make([]float64, np)
+	for p, s := range psi {
+		a.spec[p] = mulI(-g.L[p/nk], s)
+	}
+	a.plan.Inverse(u, a.spec)
+	for p, s := range psi {
+		a.spec[p] = mulI(g.K[p%nk], s)
+	}
+	a.plan.Inverse(v, a.spec)
+	a.plan.Inverse(qq, q)
+	for i := range u {
+		u[i] *= qq[i]
+		v[i] *= qq[i]
+	}
+	a.convergence(dst, u, v)
+}
+
+// termTendency returns the streamfunction tendency of one model term on the
+// reference PV state.
+func (a *Accumulator) termTendency(term qg.Term, refQ [2][]complex128) [2][]complex128 {
+	ns := len(a.g.K2)
+	dq := [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
+	if err := a.m.TermTendency(term, dq, refQ, a.tLast); err != nil {
+		panic("diag: " + err.Error()) // only TermSource or a size mismatch, neither possible here
+	}
+	return dq
+}
+
+// streamTendency inverts a PV tendency.
+func (a *Accumulator) streamTendency(dq [2][]complex128) [2][]complex128 {
+	ns := len(a.g.K2)
+	ps := [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
+	a.m.Inverter().InvertAll(ps, dq)
+	return ps
+}
+
+// addTo adds y into x.
+func addTo(x, y [2][]complex128) {
+	for n := range 2 {
+		for p := range x[n] {
+			x[n][p] += y[n][p]
+		}
+	}
+}
