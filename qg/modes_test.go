@@ -192,8 +192,10 @@ func TestRelaxedModeEFolding(t *testing.T) {
 	}
 	t.Logf("relaxed mode: ε(%g τ) = %.5g, e-folding time %.5g days (τ_r = %g days, error %.2g %%); shape departure %.2g",
 		m.Time()/tau, e, got/86400, tau/86400, 100*(got-tau)/tau, math.Sqrt(perp/den))
-	if math.Abs(got-tau)/tau > 0.05 {
-		t.Errorf("e-folding time %.5g s, want τ_r = %g s within 5 %%", got, tau)
+	// The brief asks for 5 %; RK4's error for a linear decay with
+	// dt/τ_r = 1/72 is of order (dt/τ_r)⁴/120, so a much tighter bound holds.
+	if math.Abs(got-tau)/tau > 1e-4 {
+		t.Errorf("e-folding time %.7g s, want τ_r = %g s within 0.01 %%", got, tau)
 	}
 	if math.Sqrt(perp/den) > 1e-3*eps0 {
 		t.Errorf("the perturbation changed shape: orthogonal part %.2g of ‖q_B‖", math.Sqrt(perp/den))
