@@ -1,77 +1,108 @@
 package fft
 
-// packT stores rows y0..y1-1 of the real ny×nx field src as complex pairs z[m] = src[2m] + i·src[2m+1],
-// transposed: dst[m*ld+y].
-func packT(dst []complex128, src []float64, nx, ld, y0, y1 int) {
+// The functions here move data between the caller's row-major arrays and the worker-private chunk
+// buffers, where a chunk of rows (or columns) forms the batch: element t of the chunk's sequence q is at
+// buf[t*ld+q].
+
+// packT stores rows ya..yb-1 of the real field src (row length nx) as complex pairs
+// z[m] = src[2m] + i·src[2m+1], transposed: dst[m*ld+(y−ya)].
+func packT(dst []complex128, src []float64, nx, ld, ya, yb int) {
 	h := nx / 2
-	for y := y0; y < y1; y++ {
+	for y := ya; y < yb; y++ {
 		row := src[y*nx : y*nx+nx]
+		q := y - ya
 		for m := 0; m < h; m++ {
-			dst[m*ld+y] = complex(row[2*m], row[2*m+1])
+			dst[m*ld+q] = complex(row[2*m], row[2*m+1])
 		}
 	}
 }
 
 // unpackT is the inverse of packT.
-func unpackT(dst []float64, src []complex128, nx, ld, y0, y1 int) {
+func unpackT(dst []float64, src []complex128, nx, ld, ya, yb int) {
 	h := nx / 2
-	for y := y0; y < y1; y++ {
+	for y := ya; y < yb; y++ {
 		row := dst[y*nx : y*nx+nx]
+		q := y - ya
 		for m := 0; m < h; m++ {
-			v := src[m*ld+y]
+			v := src[m*ld+q]
 			row[2*m] = real(v)
 			row[2*m+1] = imag(v)
 		}
 	}
 }
 
-// postT turns the half-length transforms Z[k][y] (layout src[k*ld+y], k < h) of the packed rows into the
-// real-to-complex spectra X[y][k] (layout dst[y*(h+1)+k], k = 0..h):
+// gather copies columns ia..ib-1 of the row-major array src (row length w) into dst[j*ld+(i−ia)].
+func gather(dst, src []complex128, w, ld, ia, ib int) {
+	n := len(src) / w
+	for j := 0; j < n; j++ {
+		copy(dst[j*ld:j*ld+ib-ia], src[j*w+ia:j*w+ib])
+	}
+}
+
+// scatter is the inverse of gather.
+func scatter(dst, src []complex128, w, ld, ia, ib int) {
+	n := len(dst) / w
+	for j := 0; j < n; j++ {
+		copy(dst[j*w+ia:j*w+ib], src[j*ld:j*ld+ib-ia])
+	}
+}
+
+// postT turns the half-length transforms Z[k] (chunk layout src[k*ld+(y−ya)], k < h) of the packed rows
+// ya..yb-1 into their real-to-complex spectra X[k], k = 0..h, stored in dst[y*(h+1)+k]:
 // X[k] = E + W^k·O, X[h−k] = conj(E − W^k·O), E = (Z[k] + conj Z[h−k])/2, O = (Z[k] − conj Z[h−k])/(2i),
-// with W = exp(−2πi/nx). hw[k] = W^k/2.
-func postT(dst, src []complex128, hw []complex128, h, ld, y0, y1 int) {
+// with W = exp(−2πi/nx) and Z[h] = Z[0] (standard real-FFT post-processing). hw[k] = W^k/2.
+func postT(dst, src []complex128, hw []complex128, h, ld, ya, yb int) {
 	w := h + 1
-	for k := 0; k <= h/2; k++ {
-		km := (h - k) % h
-		zk := src[k*ld : k*ld+ld]
-		zm := src[km*ld : km*ld+ld]
-		hwr, hwi := real(hw[k]), imag(hw[k])
-		for y := y0; y < y1; y++ {
-			a, b := real(zk[y]), imag(zk[y])
-			c, d := real(zm[y]), imag(zm[y])
+	hw = hw[:h/2+1]
+	for y := ya; y < yb; y++ {
+		q := y - ya
+		row := dst[y*w : y*w+w]
+		z0 := src[q]
+		row[0] = complex(real(z0)+imag(z0), 0)
+		row[h] = complex(real(z0)-imag(z0), 0)
+		for k := 1; k < len(hw); k++ {
+			hwr, hwi := real(hw[k]), imag(hw[k])
+			zk, zm := src[k*ld+q], src[(h-k)*ld+q]
+			a, b := real(zk), imag(zk)
+			c, d := real(zm), imag(zm)
 			sr, sd := a+c, b-d
 			dr, ds := a-c, b+d
 			tr := hwr*ds + hwi*dr
 			ti := hwi*ds - hwr*dr
-			dst[y*w+k] = complex(0.5*sr+tr, 0.5*sd+ti)
-			dst[y*w+h-k] = complex(0.5*sr-tr, ti-0.5*sd)
+			row[k] = complex(0.5*sr+tr, 0.5*sd+ti)
+			row[h-k] = complex(0.5*sr-tr, ti-0.5*sd)
 		}
 	}
 }
 
-// preT is the inverse of postT, scaled: from the spectra X[y][k] (layout src[y*(h+1)+k]) it forms
-// Z[k] = c·(E + i·O), E = (X[k] + conj X[h−k])/2, O = W^−k·(X[k] − conj X[h−k])/2, stored transposed as
-// dst[k*ld+y]. The imaginary parts of X[0] and X[h] are ignored. hw[k] = c·W^k/2 and half = c/2.
-func preT(dst, src []complex128, hw []complex128, half float64, h, ld, y0, y1 int) {
+// preT is the inverse of postT, scaled by c: from the spectra X[k] (src[y*(h+1)+k]) of rows ya..yb-1 it
+// forms Z[k] = c·(E + i·O), E = (X[k] + conj X[h−k])/2, O = W^−k·(X[k] − conj X[h−k])/2, stored in
+// dst[k*ld+(y−ya)]. The imaginary parts of X[0] and X[h] are ignored. hw[k] = c·W^k/2 and half = c/2.
+func preT(dst, src []complex128, hw []complex128, half float64, h, ld, ya, yb int) {
 	w := h + 1
-	for y := y0; y < y1; y++ {
-		a, c := real(src[y*w]), real(src[y*w+h])
-		dst[y] = complex(half*(a+c), half*(a-c))
+	n := yb - ya
+	z0 := dst[:n]
+	for q := range z0 {
+		o := (ya + q) * w
+		a, c := real(src[o]), real(src[o+h])
+		z0[q] = complex(half*(a+c), half*(a-c))
 	}
 	for k := 1; k <= h/2; k++ {
 		hwr, hwi := real(hw[k]), imag(hw[k])
-		zk := dst[k*ld : k*ld+ld]
-		zm := dst[(h-k)*ld : (h-k)*ld+ld]
-		for y := y0; y < y1; y++ {
-			xk, xm := src[y*w+k], src[y*w+h-k]
+		zk := dst[k*ld : k*ld+n]
+		zm := dst[(h-k)*ld : (h-k)*ld+n]
+		zm = zm[:len(zk)]
+		for q := range zk {
+			o := (ya + q) * w
+			xk, xm := src[o+k], src[o+h-k]
 			a, b := real(xk), imag(xk)
 			c, d := real(xm), imag(xm)
 			sr, sd := a+c, b-d
 			dr, ds := a-c, b+d
 			or := hwr*dr + hwi*ds
 			oi := hwr*ds - hwi*dr
-			zk[y] = complex(half*sr-oi, half*sd+or)
-			zm[y] = complex(half*sr+oi, or-half*sd)
+			zk[q] = complex(half*sr-oi, half*sd+or)
+			zm[q] = complex(half*sr+oi, or-half*sd)
 		}
 	}
 }

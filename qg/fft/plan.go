@@ -6,6 +6,13 @@ import (
 	"sync"
 )
 
+// Chunk sizes of the cache-blocked passes: the zonal transforms are done cy rows at a time and the
+// meridional ones ci columns at a time, in worker-private buffers that stay in the core's cache.
+const (
+	cy = 16
+	ci = 16
+)
+
 // Plan2D transforms an ny×nx real field stored row-major (x fastest, index y*nx+x) to and from
 // ny×(nx/2+1) complex coefficients stored row-major (kx fastest, index j*(nx/2+1)+i), where
 // i = 0..nx/2 is the zonal wavenumber index and j = 0..ny-1 the meridional one (j > ny/2 are negative).
@@ -16,22 +23,21 @@ type Plan2D struct {
 	nx, ny, workers int
 	h, w            int // nx/2 and nx/2+1
 
-	xb batch // length h along x, batch of ny (zonal transforms, transposed layout [k][y], row stride ld)
-	ld int   // ny plus one cache line, so the transposed rows are not a power of two bytes apart
-	yb batch // length ny along y, batch of w (meridional transforms, layout [j][i])
+	xb batch // length h along x, batch of cy rows (layout [k][row], transposed)
+	yb batch // length ny along y, batch of ci columns (layout [j][column])
 
-	fpost []complex128 // forward post-processing weights 0.5·exp(−2πik/nx), k = 0..h/2
-	ipre  []complex128 // inverse pre-processing weights 0.5·c·exp(−2πik/nx), c = 1/(ny·h)
-	ihalf float64      // 0.5·c
+	fpost []complex128 // forward post-processing weights exp(−2πik/nx)/2, k = 0..h/2
+	ipre  []complex128 // inverse pre-processing weights c·exp(−2πik/nx)/2, c = 1/(ny·h)
+	ihalf float64      // c/2
 
-	a, b, c []complex128 // scratch, each ny·w
+	mid  []complex128      // ny·w: the inverse's meridional result, input of its zonal pass
+	bufs [][2][]complex128 // per-worker ping-pong buffers
 
 	// per-call arguments for the worker goroutines
 	fsrc []float64
 	fdst []complex128
 	isrc []complex128
 	idst []float64
-	mid  []complex128 // buffer handed from phase 1 to phase 2
 
 	wg    sync.WaitGroup
 	tasks [4][]func() // goroutine bodies for workers 1..workers-1: fwd1, fwd2, inv1, inv2
@@ -53,14 +59,15 @@ func NewPlan2D(nx, ny, workers int) (*Plan2D, error) {
 	w := h + 1
 	p := &Plan2D{
 		nx: nx, ny: ny, workers: workers, h: h, w: w,
-		ld: ny + 4,
-		yb: newBatch(ny, w),
+		xb:  newBatch(h),
+		yb:  newBatch(ny),
+		mid: make([]complex128, ny*w),
 	}
-	p.xb = newBatch(h, p.ld)
-	size := max(ny*w, h*p.ld)
-	p.a = make([]complex128, size)
-	p.b = make([]complex128, size)
-	p.c = make([]complex128, size)
+	size := max(h*cy, ny*ci)
+	p.bufs = make([][2][]complex128, workers)
+	for k := range p.bufs {
+		p.bufs[k] = [2][]complex128{make([]complex128, size), make([]complex128, size)}
+	}
 	scale := 1 / float64(ny*h)
 	p.ihalf = 0.5 * scale
 	for k := 0; k <= h/2; k++ {
@@ -131,42 +138,45 @@ func (p *Plan2D) Forward(dst []complex128, src []float64) {
 		panic(fmt.Sprintf("fft: Forward: len(dst) = %d, want ny·(nx/2+1) = %d", len(dst), p.ny*p.w))
 	}
 	p.fsrc, p.fdst = src, dst
-	p.mid = dst // start of the meridional stages (see forward1)
-	if len(p.yb.stages)%2 == 1 {
-		p.mid = p.c
-	}
 	p.parallel(0, p.forward1)
 	p.parallel(1, p.forward2)
-	p.fsrc, p.fdst, p.mid = nil, nil, nil
+	p.fsrc, p.fdst = nil, nil
 }
 
-// forward1: pack rows y of worker k as complex pairs, zonal transforms, real-to-complex post-processing
-// into the [j][i] layout.
+// forward1 does the zonal real-to-complex transforms of worker k's rows, cy rows at a time: half-length
+// complex transforms of the rows read as complex pairs (the first stage reads the field directly), then
+// the post-processing into dst.
 func (p *Plan2D) forward1(k int) {
 	y0, y1 := p.span(k, p.ny)
-	if y0 == y1 {
-		return
+	b0, b1 := p.bufs[k][0], p.bufs[k][1]
+	xs := p.xb.stages
+	for ya := y0; ya < y1; ya += cy {
+		yb := min(ya+cy, y1)
+		l := yb - ya
+		cur, nxt := b0, b1
+		i := 0
+		if xs[0].radix == 4 {
+			fwd4Real(cur, p.fsrc[ya*p.nx:yb*p.nx], p.nx, p.h, cy, l, xs[0].fw)
+			i = 1
+		} else {
+			packT(cur, p.fsrc, p.nx, cy, ya, yb)
+		}
+		for ; i < len(xs); i++ {
+			p.xb.do(i, nxt, cur, cy, cy, l, false)
+			cur, nxt = nxt, cur
+		}
+		postT(p.fdst, cur, p.fpost, p.h, cy, ya, yb)
 	}
-	packT(p.a, p.fsrc, p.nx, p.ld, y0, y1)
-	f := p.xb.run(p.a, p.b, p.a, y0, y1, false)
-	// The meridional stages start in g and must end in dst. g must not be a or b, which other workers
-	// may still be using for their zonal stages.
-	g := p.mid
-	postT(g, f, p.fpost, p.h, p.ld, y0, y1)
 }
 
-// forward2: meridional transforms of the columns i of worker k.
+// forward2 does the meridional transforms of worker k's columns of dst, in place, ci columns at a time.
 func (p *Plan2D) forward2(k int) {
 	i0, i1 := p.span(k, p.w)
-	if i0 == i1 {
-		return
+	b0, b1 := p.bufs[k][0], p.bufs[k][1]
+	for ia := i0; ia < i1; ia += ci {
+		ib := min(ia+ci, i1)
+		p.yb.run(p.fdst[ia:], p.fdst[ia:], b0, b1, p.w, p.w, ci, ib-ia, false)
 	}
-	g := p.mid
-	other := p.fdst
-	if &g[0] == &p.fdst[0] {
-		other = p.a
-	}
-	p.yb.run(g, other, g, i0, i1, false)
 }
 
 // Inverse computes dst[y*nx+x] = (1/(nx·ny)) Σ_j Σ_i c[j][i]·exp(2πi(i·x/nx + j·y/ny)), the sum running
@@ -184,37 +194,37 @@ func (p *Plan2D) Inverse(dst []float64, src []complex128) {
 		panic(fmt.Sprintf("fft: Inverse: len(dst) = %d, want nx·ny = %d", len(dst), p.nx*p.ny))
 	}
 	p.isrc, p.idst = src, dst
-	p.mid = p.b // result of the meridional stages (see batch.run)
-	if len(p.yb.stages)%2 == 1 {
-		p.mid = p.a
-	}
 	p.parallel(2, p.inverse1)
 	p.parallel(3, p.inverse2)
-	p.isrc, p.idst, p.mid = nil, nil, nil
+	p.isrc, p.idst = nil, nil
 }
 
-// inverse1: meridional inverse transforms of the columns i of worker k (src → a/b).
+// inverse1 does the meridional inverse transforms of worker k's columns, src → mid, ci columns at a time.
 func (p *Plan2D) inverse1(k int) {
 	i0, i1 := p.span(k, p.w)
-	if i0 == i1 {
-		return
+	b0, b1 := p.bufs[k][0], p.bufs[k][1]
+	for ia := i0; ia < i1; ia += ci {
+		ib := min(ia+ci, i1)
+		p.yb.run(p.mid[ia:], p.isrc[ia:], b0, b1, p.w, p.w, ci, ib-ia, true)
 	}
-	p.yb.run(p.isrc, p.a, p.b, i0, i1, true)
 }
 
-// inverse2: complex-to-real pre-processing into the transposed [k][y] layout, zonal inverse transforms and
-// unpacking of rows y of worker k.
+// inverse2 does the zonal complex-to-real transforms of worker k's rows, cy rows at a time:
+// pre-processing (transposed), half-length inverse transforms, the last stage writing into dst.
 func (p *Plan2D) inverse2(k int) {
 	y0, y1 := p.span(k, p.ny)
-	if y0 == y1 {
-		return
+	b0, b1 := p.bufs[k][0], p.bufs[k][1]
+	xs := p.xb.stages
+	last := len(xs) - 1
+	for ya := y0; ya < y1; ya += cy {
+		yb := min(ya+cy, y1)
+		l := yb - ya
+		preT(b0, p.mid, p.ipre, p.ihalf, p.h, cy, ya, yb)
+		cur, nxt := b0, b1
+		for i := 0; i < last; i++ {
+			p.xb.do(i, nxt, cur, cy, cy, l, true)
+			cur, nxt = nxt, cur
+		}
+		bwdLastReal(p.idst[ya*p.nx:yb*p.nx], cur, p.nx, xs[last].radix, xs[last].r, cy, l)
 	}
-	f := p.mid
-	g := p.a
-	if &f[0] == &p.a[0] {
-		g = p.b
-	}
-	preT(g, f, p.ipre, p.ihalf, p.h, p.ld, y0, y1)
-	r := p.xb.run(g, p.c, g, y0, y1, true)
-	unpackT(p.idst, r, p.nx, p.ld, y0, y1)
 }

@@ -2,32 +2,35 @@ package fft
 
 import "math"
 
-// This file holds the batched Stockham kernels. A batch of complex sequences of length n is stored with
-// the batch index fastest: element t of sequence q is at x[q+bs*t]. Each radix-4 stage of sub-length m
-// and stride s (m*s = n*bs) reads x[q+s*(p+k*m/4)] and writes y[q+s*(4p+k)] for k = 0..3, p < m/4,
-// q < s; the twiddle depends on p only, so the innermost loop runs over contiguous memory with the
-// twiddles held in registers. A butterfly only mixes elements whose batch index q mod bs agrees, so a
-// worker owning a range of batch indices can run every stage without synchronising with the others.
+// This file holds the Stockham kernels. They work on a batch of l complex sequences of length n stored
+// with the batch index fastest: element t of sequence q is at x[q+bi*t], where the row stride bi >= l lets
+// the batch be a block of columns of a larger row-major array. A stage of radix r and sub-length m,
+// after earlier stages whose radices multiply to R (so m·R = n), reads
+//
+//	x[q + bi*(j + R*(p + k*m/r))]   and writes   y[q + bo*(j + R*(r*p + k))],
+//
+// for q < l, j < R, p < m/r, k < r. The twiddles depend on p only, so the innermost loop over q runs over
+// contiguous memory with the twiddles held in registers (vectorising across the batch). Each stage is
+// out of place; the result comes out in natural order (self-sorting), with no bit reversal.
 
-// stage is one pass of a batched Stockham transform.
+// stage is one pass of a Stockham transform.
 type stage struct {
-	m, s  int          // sub-length and stride
-	radix int          // 4 or 2
-	fw    []complex128 // forward twiddles: fw[3p+k-1] = exp(-2πi·k·p/m), k = 1..3, p < m/4
-	bw    []complex128 // backward (conjugate) twiddles
+	m, r, radix int          // sub-length, product of the earlier radices, radix (4 or 2)
+	fw          []complex128 // forward twiddles: fw[3p+k-1] = exp(−2πi·k·p/m), k = 1..3, p < m/4
+	bw          []complex128 // backward (conjugate) twiddles
 }
 
-// batch is a plan for transforms of length n over a batch of bs interleaved sequences.
+// batch is a plan for transforms of length n.
 type batch struct {
-	n, bs  int
+	n      int
 	stages []stage
 }
 
-func newBatch(n, bs int) batch {
-	b := batch{n: n, bs: bs}
-	s := bs
+func newBatch(n int) batch {
+	b := batch{n: n}
+	r := 1
 	for m := n; m > 1; {
-		st := stage{m: m, s: s, radix: 4}
+		st := stage{m: m, r: r, radix: 4}
 		if m == 2 {
 			st.radix = 2
 		} else {
@@ -44,46 +47,59 @@ func newBatch(n, bs int) batch {
 		}
 		b.stages = append(b.stages, st)
 		m /= st.radix
-		s *= st.radix
+		r *= st.radix
 	}
 	return b
 }
 
-// run transforms the sequences with batch index in [b0, b1). Stage 0 reads in and writes x, stage 1 reads
-// x and writes y, stage 2 reads y and writes x, and so on; run returns the buffer holding the result.
-// in may equal y (never x). Only the entries of the owned batch indices are read or written.
-func (b *batch) run(in, x, y []complex128, b0, b1 int, inverse bool) []complex128 {
-	src, dst := in, x
-	for i := range b.stages {
-		st := &b.stages[i]
-		switch {
-		case st.radix == 2:
-			radix2(dst, src, st.m, st.s, b.bs, b0, b1)
-		case inverse:
-			bwd4(dst, src, st.m, st.s, b.bs, b0, b1, st.bw)
-		default:
-			fwd4(dst, src, st.m, st.s, b.bs, b0, b1, st.fw)
-		}
-		if i == 0 {
-			src, dst = x, y
-		} else {
-			src, dst = dst, src
-		}
+// do runs stage i on l sequences, reading x with row stride bi and writing y with row stride bo.
+func (b *batch) do(i int, y, x []complex128, bi, bo, l int, inverse bool) {
+	st := &b.stages[i]
+	switch {
+	case st.radix == 2:
+		radix2(y, x, st.m, st.r, bi, bo, l)
+	case inverse:
+		bwd4(y, x, st.m, st.r, bi, bo, l, st.bw)
+	default:
+		fwd4(y, x, st.m, st.r, bi, bo, l, st.fw)
 	}
-	return src
 }
 
-func radix2(y, x []complex128, m, s, bs, b0, b1 int) {
+// run transforms l sequences: stage 0 reads in (stride bi), the last stage writes out (stride bo), and the
+// stages in between ping-pong between the private buffers b0 and b1 (stride ld). in and out may be the
+// same array (an in-place transform of a block of columns).
+func (b *batch) run(out, in, b0, b1 []complex128, bi, bo, ld, l int, inverse bool) {
+	ns := len(b.stages)
+	if ns == 1 {
+		gatherCols(b0, in, bi, ld, l, b.n)
+		b.do(0, out, b0, ld, bo, l, inverse)
+		return
+	}
+	b.do(0, b0, in, bi, ld, l, inverse)
+	for i := 1; i < ns-1; i++ {
+		b.do(i, b1, b0, ld, ld, l, inverse)
+		b0, b1 = b1, b0
+	}
+	b.do(ns-1, out, b0, ld, bo, l, inverse)
+}
+
+// gatherCols copies n rows of l columns from src (row stride si) to dst (row stride sd).
+func gatherCols(dst, src []complex128, si, sd, l, n int) {
+	for t := 0; t < n; t++ {
+		copy(dst[t*sd:t*sd+l], src[t*si:t*si+l])
+	}
+}
+
+func radix2(y, x []complex128, m, R, bi, bo, l int) {
 	h := m / 2
-	l := b1 - b0
 	for p := 0; p < h; p++ {
-		for r := 0; r < s; r += bs {
-			i := r + b0 + s*p
-			o := r + b0 + s*2*p
+		for j := 0; j < R; j++ {
+			i := bi * (j + R*p)
+			o := bo * (j + R*2*p)
 			a := x[i : i+l]
-			b := x[i+s*h : i+s*h+l]
+			b := x[i+bi*R*h : i+bi*R*h+l]
 			ya := y[o : o+l]
-			yb := y[o+s : o+s+l]
+			yb := y[o+bo*R : o+bo*R+l]
 			b = b[:len(a)]
 			ya = ya[:len(a)]
 			yb = yb[:len(a)]
@@ -96,19 +112,19 @@ func radix2(y, x []complex128, m, s, bs, b0, b1 int) {
 	}
 }
 
-func fwd4(y, x []complex128, m, s, bs, b0, b1 int, tw []complex128) {
+func fwd4(y, x []complex128, m, R, bi, bo, l int, tw []complex128) {
 	m0 := m / 4
-	l := b1 - b0
-	for r := 0; r < s; r += bs {
-		i := r + b0
+	si, so := bi*R*m0, bo*R // input and output distance between the four legs
+	for j := 0; j < R; j++ {
+		i, o := bi*j, bo*j
 		a := x[i : i+l]
-		b := x[i+s*m0 : i+s*m0+l]
-		c := x[i+2*s*m0 : i+2*s*m0+l]
-		d := x[i+3*s*m0 : i+3*s*m0+l]
-		ya := y[i : i+l]
-		yb := y[i+s : i+s+l]
-		yc := y[i+2*s : i+2*s+l]
-		yd := y[i+3*s : i+3*s+l]
+		b := x[i+si : i+si+l]
+		c := x[i+2*si : i+2*si+l]
+		d := x[i+3*si : i+3*si+l]
+		ya := y[o : o+l]
+		yb := y[o+so : o+so+l]
+		yc := y[o+2*so : o+2*so+l]
+		yd := y[o+3*so : o+3*so+l]
 		b, c, d = b[:len(a)], c[:len(a)], d[:len(a)]
 		ya, yb, yc, yd = ya[:len(a)], yb[:len(a)], yc[:len(a)], yd[:len(a)]
 		for q, av := range a {
@@ -117,24 +133,24 @@ func fwd4(y, x []complex128, m, s, bs, b0, b1 int, tw []complex128) {
 			bpd, bmd := bv+dv, bv-dv
 			jbmd := complex(-imag(bmd), real(bmd))
 			ya[q] = apc + bpd
-			yb[q] = amc - jbmd
 			yc[q] = apc - bpd
+			yb[q] = amc - jbmd
 			yd[q] = amc + jbmd
 		}
 	}
 	for p := 1; p < m0; p++ {
 		w1, w2, w3 := tw[3*p], tw[3*p+1], tw[3*p+2]
-		for r := 0; r < s; r += bs {
-			i := r + b0 + s*p
-			o := r + b0 + s*4*p
+		for j := 0; j < R; j++ {
+			i := bi * (j + R*p)
+			o := bo * (j + R*4*p)
 			a := x[i : i+l]
-			b := x[i+s*m0 : i+s*m0+l]
-			c := x[i+2*s*m0 : i+2*s*m0+l]
-			d := x[i+3*s*m0 : i+3*s*m0+l]
+			b := x[i+si : i+si+l]
+			c := x[i+2*si : i+2*si+l]
+			d := x[i+3*si : i+3*si+l]
 			ya := y[o : o+l]
-			yb := y[o+s : o+s+l]
-			yc := y[o+2*s : o+2*s+l]
-			yd := y[o+3*s : o+3*s+l]
+			yb := y[o+so : o+so+l]
+			yc := y[o+2*so : o+2*so+l]
+			yd := y[o+3*so : o+3*so+l]
 			b, c, d = b[:len(a)], c[:len(a)], d[:len(a)]
 			ya, yb, yc, yd = ya[:len(a)], yb[:len(a)], yc[:len(a)], yd[:len(a)]
 			for q, av := range a {
@@ -143,27 +159,27 @@ func fwd4(y, x []complex128, m, s, bs, b0, b1 int, tw []complex128) {
 				bpd, bmd := bv+dv, bv-dv
 				jbmd := complex(-imag(bmd), real(bmd))
 				ya[q] = apc + bpd
-				yb[q] = w1 * (amc - jbmd)
 				yc[q] = w2 * (apc - bpd)
+				yb[q] = w1 * (amc - jbmd)
 				yd[q] = w3 * (amc + jbmd)
 			}
 		}
 	}
 }
 
-func bwd4(y, x []complex128, m, s, bs, b0, b1 int, tw []complex128) {
+func bwd4(y, x []complex128, m, R, bi, bo, l int, tw []complex128) {
 	m0 := m / 4
-	l := b1 - b0
-	for r := 0; r < s; r += bs {
-		i := r + b0
+	si, so := bi*R*m0, bo*R
+	for j := 0; j < R; j++ {
+		i, o := bi*j, bo*j
 		a := x[i : i+l]
-		b := x[i+s*m0 : i+s*m0+l]
-		c := x[i+2*s*m0 : i+2*s*m0+l]
-		d := x[i+3*s*m0 : i+3*s*m0+l]
-		ya := y[i : i+l]
-		yb := y[i+s : i+s+l]
-		yc := y[i+2*s : i+2*s+l]
-		yd := y[i+3*s : i+3*s+l]
+		b := x[i+si : i+si+l]
+		c := x[i+2*si : i+2*si+l]
+		d := x[i+3*si : i+3*si+l]
+		ya := y[o : o+l]
+		yb := y[o+so : o+so+l]
+		yc := y[o+2*so : o+2*so+l]
+		yd := y[o+3*so : o+3*so+l]
 		b, c, d = b[:len(a)], c[:len(a)], d[:len(a)]
 		ya, yb, yc, yd = ya[:len(a)], yb[:len(a)], yc[:len(a)], yd[:len(a)]
 		for q, av := range a {
@@ -172,24 +188,24 @@ func bwd4(y, x []complex128, m, s, bs, b0, b1 int, tw []complex128) {
 			bpd, bmd := bv+dv, bv-dv
 			jbmd := complex(-imag(bmd), real(bmd))
 			ya[q] = apc + bpd
-			yb[q] = amc + jbmd
 			yc[q] = apc - bpd
+			yb[q] = amc + jbmd
 			yd[q] = amc - jbmd
 		}
 	}
 	for p := 1; p < m0; p++ {
 		w1, w2, w3 := tw[3*p], tw[3*p+1], tw[3*p+2]
-		for r := 0; r < s; r += bs {
-			i := r + b0 + s*p
-			o := r + b0 + s*4*p
+		for j := 0; j < R; j++ {
+			i := bi * (j + R*p)
+			o := bo * (j + R*4*p)
 			a := x[i : i+l]
-			b := x[i+s*m0 : i+s*m0+l]
-			c := x[i+2*s*m0 : i+2*s*m0+l]
-			d := x[i+3*s*m0 : i+3*s*m0+l]
+			b := x[i+si : i+si+l]
+			c := x[i+2*si : i+2*si+l]
+			d := x[i+3*si : i+3*si+l]
 			ya := y[o : o+l]
-			yb := y[o+s : o+s+l]
-			yc := y[o+2*s : o+2*s+l]
-			yd := y[o+3*s : o+3*s+l]
+			yb := y[o+so : o+so+l]
+			yc := y[o+2*so : o+2*so+l]
+			yd := y[o+3*so : o+3*so+l]
 			b, c, d = b[:len(a)], c[:len(a)], d[:len(a)]
 			ya, yb, yc, yd = ya[:len(a)], yb[:len(a)], yc[:len(a)], yd[:len(a)]
 			for q, av := range a {
@@ -198,8 +214,8 @@ func bwd4(y, x []complex128, m, s, bs, b0, b1 int, tw []complex128) {
 				bpd, bmd := bv+dv, bv-dv
 				jbmd := complex(-imag(bmd), real(bmd))
 				ya[q] = apc + bpd
-				yb[q] = w1 * (amc + jbmd)
 				yc[q] = w2 * (apc - bpd)
+				yb[q] = w1 * (amc + jbmd)
 				yd[q] = w3 * (amc - jbmd)
 			}
 		}
