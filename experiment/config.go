@@ -1,0 +1,132 @@
+package experiment
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"strings"
+
+	"github.com/BurntSushi/toml"
+
+	"eddyblock/qg"
+	"eddyblock/qg/block"
+	"eddyblock/wavemaker"
+)
+
+// Config is a whole experiment.
+type Config struct {
+	// Name labels the experiment in reports and output files.
+	Name      string           `toml:"name" json:"name"`
+	Model     qg.Config        `toml:"model" json:"model"`
+	Block     BlockConfig      `toml:"block" json:"block"`
+	Wavemaker wavemaker.Config `toml:"wavemaker" json:"wavemaker"`
+	Run       RunConfig        `toml:"run" json:"run"`
+}
+
+// BlockConfig is the prescribed block; Shape "none" runs without one.
+type BlockConfig = block.Config
+
+// NoBlock is the Shape of an experiment without a block.
+const NoBlock block.Shape = "none"
+
+// RunConfig sets the length of a run and what it records.
+type RunConfig struct {
+	// Days is the length of the run, days of model time.
+	Days float64 `toml:"days" json:"days"`
+	// SpinUpDays is the time before the diagnostics start averaging, days.
+	SpinUpDays float64 `toml:"spin_up_days" json:"spin_up_days"`
+	// ReportDays is the interval between progress reports, days.
+	ReportDays float64 `toml:"report_days" json:"report_days"`
+	// SampleSteps is the number of time steps between diagnostic samples.
+	SampleSteps int `toml:"sample_steps" json:"sample_steps"`
+}
+
+// Validate checks every part of the configuration and returns the first
+// problem, as a *qg.FieldError naming the key where there is one.
+func (c *Config) Validate() error {
+	if err := prefix("model.", c.Model.Validate()); err != nil {
+		return err
+	}
+	if c.Block.Shape != NoBlock && c.Block.Shape != "" {
+		if err := c.Block.Validate(c.Model); err != nil {
+			return err
+		}
+	}
+	if err := c.Wavemaker.ValidateFor(c.Model); err != nil {
+		return err
+	}
+	r := c.Run
+	for _, f := range []struct {
+		key string
+		v   float64
+		pos bool
+	}{{"run.days", r.Days, true}, {"run.spin_up_days", r.SpinUpDays, false}, {"run.report_days", r.ReportDays, true}} {
+		if math.IsNaN(f.v) || math.IsInf(f.v, 0) || f.v < 0 || (f.pos && f.v == 0) {
+			return &qg.FieldError{Field: f.key, Value: f.v, Why: "must be a finite number of days, greater than zero"}
+		}
+	}
+	if r.SpinUpDays >= r.Days {
+		return &qg.FieldError{Field: "run.spin_up_days", Value: r.SpinUpDays, Why: fmt.Sprintf("must be shorter than run.days = %g", r.Days)}
+	}
+	if r.SampleSteps < 1 {
+		return &qg.FieldError{Field: "run.sample_steps", Value: r.SampleSteps, Why: "must be at least 1"}
+	}
+	return nil
+}
+
+// prefix puts p before the key of a *qg.FieldError that lacks it.
+func prefix(p string, err error) error {
+	var fe *qg.FieldError
+	if errors.As(err, &fe) && !strings.HasPrefix(fe.Field, p) {
+		return &qg.FieldError{Field: p + fe.Field, Value: fe.Value, Why: fe.Why}
+	}
+	return err
+}
+
+// Decode reads a TOML configuration on top of base (keys it does not set
+// keep base's values) and validates the result. A key the configuration
+// does not know is an error naming it.
+func Decode(r io.Reader, base Config) (Config, error) {
+	c := base
+	md, err := toml.NewDecoder(r).Decode(&c)
+	if err != nil {
+		return Config{}, fmt.Errorf("config: %w", err)
+	}
+	if und := md.Undecoded(); len(und) > 0 {
+		keys := make([]string, len(und))
+		for i, k := range und {
+			keys[i] = k.String()
+		}
+		return Config{}, fmt.Errorf("config: unknown key %s", strings.Join(keys, ", "))
+	}
+	if err := c.Validate(); err != nil {
+		return Config{}, err
+	}
+	return c, nil
+}
+
+// Load reads a TOML configuration file on top of the default experiment.
+func Load(path string) (Config, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return Config{}, fmt.Errorf("config: %w", err)
+	}
+	defer f.Close()
+	c, err := Decode(f, Default())
+	if err != nil {
+		return Config{}, fmt.Errorf("%s: %w", path, err)
+	}
+	return c, nil
+}
+
+// TOML returns the configuration as a TOML document.
+func (c Config) TOML() string {
+	var b bytes.Buffer
+	if err := toml.NewEncoder(&b).Encode(c); err != nil {
+		panic(err) // a Config has no types TOML cannot encode
+	}
+	return b.String()
+}

@@ -1,0 +1,116 @@
+package experiment
+
+import (
+	"context"
+	"fmt"
+	"math"
+
+	"eddyblock/qg"
+	"eddyblock/wavemaker"
+)
+
+// Experiment is a configured model with its block, its wave source and its
+// diagnostics, ready to run.
+type Experiment struct {
+	Config Config
+	Model  *qg.Model
+	Maker  wavemaker.Maker
+	// HasBlock reports whether a block is prescribed.
+	HasBlock bool
+
+	lastLedger qg.Ledger
+	lastTime   float64
+}
+
+// New validates c and builds the experiment at t = 0.
+func New(c Config) (*Experiment, error) {
+	if err := c.Validate(); err != nil {
+		return nil, err
+	}
+	m, err := qg.NewModel(c.Model)
+	if err != nil {
+		return nil, prefix("model.", err)
+	}
+	e := &Experiment{Config: c, Model: m}
+	if c.Block.Shape != NoBlock && c.Block.Shape != "" {
+		b, err := c.Block.Block(c.Model)
+		if err != nil {
+			return nil, err
+		}
+		if err := m.SetBlock(b); err != nil {
+			return nil, err
+		}
+		e.HasBlock = true
+	}
+	mk, err := wavemaker.New(c.Wavemaker, m)
+	if err != nil {
+		return nil, err
+	}
+	mk.Attach(m)
+	e.Maker = mk
+	return e, nil
+}
+
+// Progress is one line of a run's log.
+type Progress struct {
+	Day      float64 // model time, days
+	KE, APE  float64 // energy of the state (eddies in the fixed mode), m² s⁻²
+	CFL      float64
+	Rates    qg.Ledger // mean rate of each budget term since the last report, m² s⁻³
+	Residual float64   // d(KE+APE)/dt minus the sum of the rates, m² s⁻³
+}
+
+func (p Progress) String() string {
+	r := &p.Rates
+	return fmt.Sprintf("day %7.2f  KE %9.4g  APE %9.4g  CFL %5.3f  inj %9.3g  drag %9.3g  diss %9.3g  sponge %9.3g  shear %9.3g  resid %8.2g m2/s3",
+		p.Day, p.KE, p.APE, p.CFL, r[qg.TermSource]+r[qg.TermForcing], r[qg.TermDrag],
+		r[qg.TermFilter]+r[qg.TermHyperviscosity], r[qg.TermSponge], r[qg.TermShear]+r[qg.TermBlockForcing]+r[qg.TermRelaxation], p.Residual)
+}
+
+// StepsPerDay returns the number of steps in a day of model time, rounded.
+func (e *Experiment) StepsPerDay() float64 { return 86400 / e.Config.Model.Dt }
+
+// Run integrates to Config.Run.Days, calling report every ReportDays (if
+// report is not nil). It stops early when ctx is cancelled (returning
+// ctx.Err()) or when the model fails (a *qg.StepError).
+func (e *Experiment) Run(ctx context.Context, report func(Progress)) error {
+	c := e.Config
+	dt := c.Model.Dt
+	total := int(math.Round(c.Run.Days * 86400 / dt))
+	every := max(1, int(math.Round(c.Run.ReportDays*86400/dt)))
+	ke0, ape0 := e.Model.Energy()
+	e0 := ke0 + ape0
+	for e.Model.Steps() < total {
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		if err := e.Model.Step(); err != nil {
+			return err
+		}
+		if e.Model.Steps()%every == 0 || e.Model.Steps() == total {
+			p := e.progress(e0)
+			e0 = p.KE + p.APE
+			if report != nil {
+				report(p)
+			}
+		}
+	}
+	return nil
+}
+
+// progress makes a Progress for the interval since the last one.
+func (e *Experiment) progress(e0 float64) Progress {
+	m := e.Model
+	ke, ape := m.Energy()
+	l := m.Ledger()
+	span := m.Time() - e.lastTime
+	p := Progress{Day: m.Time() / 86400, KE: ke, APE: ape, CFL: m.CFL()}
+	var sum float64
+	for i := range l {
+		p.Rates[i] = (l[i] - e.lastLedger[i]) / span
+		sum += p.Rates[i]
+	}
+	p.Residual = (ke+ape-e0)/span - sum
+	e.lastLedger, e.lastTime = l, m.Time()
+	return p
+}
