@@ -13,8 +13,8 @@ import (
 // 2βLd² ≈ 15.7 m s⁻¹, so eddies come from the wave source, not from
 // baroclinic instability); a white-noise storm-track source in the upper
 // layer on a patch 6000 km upstream of a warm blocking dipole (a high
-// poleward, a low equatorward, 250 m, 40 % weaker in the lower layer) held
-// by the forced mode; and a sponge band at the western edge, upstream of the
+// poleward, a low equatorward, 150 m lobes of 1000 km radius 2000 km apart,
+// 40 % weaker in the lower layer) held by the forced mode; and a sponge band at the western edge, upstream of the
 // source, that absorbs the eddies leaving the block region.
 func Default() Config {
 	m := qg.DefaultConfig()
@@ -26,7 +26,7 @@ func Default() Config {
 	m.Drag = 1 / (5 * 86400.0)
 	m.Dissipation = qg.Dissipation{Kind: qg.CutoffFilter, FilterTime: 3 * 3600, FilterCutoff: 0.65, FilterOrder: 4}
 	m.Sponge = qg.Sponge{Rate: 1 / (0.5 * 86400), Width: 3e6, X: 1.5e6}
-	m.Dt = 1200
+	m.Dt = 900
 	m.Scheme = qg.RK4
 	m.MaxCFL = 1
 	m.Workers = 1
@@ -37,7 +37,7 @@ func Default() Config {
 			Shape: block.DipoleShape,
 			Mode:  qg.Forced,
 			Dipole: block.Dipole{
-				X: 11e6, Y: 5e6, Radius: 8e5, Separation: 1.6e6, Height: 250, Baroclinic: 0.4,
+				X: 11e6, Y: 5e6, Radius: 1e6, Separation: 2e6, Height: 150, Baroclinic: 0.4,
 			},
 		},
 		Wavemaker: wavemaker.Config{
