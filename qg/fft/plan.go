@@ -150,8 +150,10 @@ func (p *Plan2D) forward1(k int) {
 	y0, y1 := p.span(k, p.ny)
 	b0, b1 := p.bufs[k][0], p.bufs[k][1]
 	xs := p.xb.stages
-	for ya := y0; ya < y1; ya += cy {
-		yb := min(ya+cy, y1)
+	n := y1 - y0
+	nc := (n + cy - 1) / cy
+	for c := 0; c < nc; c++ {
+		ya, yb := y0+c*n/nc, y0+(c+1)*n/nc
 		l := yb - ya
 		cur, nxt := b0, b1
 		i := 0
@@ -170,12 +172,19 @@ func (p *Plan2D) forward1(k int) {
 }
 
 // forward2 does the meridional transforms of worker k's columns of dst, in place, ci columns at a time.
+// Column 0 holds X[y][0] + i·X[y][h] (both real, packed by postT); the worker owning it splits its
+// transform into the columns i = 0 and i = h.
 func (p *Plan2D) forward2(k int) {
-	i0, i1 := p.span(k, p.w)
+	i0, i1 := p.span(k, p.h)
 	b0, b1 := p.bufs[k][0], p.bufs[k][1]
-	for ia := i0; ia < i1; ia += ci {
-		ib := min(ia+ci, i1)
+	n := i1 - i0
+	nc := (n + ci - 1) / ci
+	for c := 0; c < nc; c++ {
+		ia, ib := i0+c*n/nc, i0+(c+1)*n/nc
 		p.yb.run(p.fdst[ia:], p.fdst[ia:], b0, b1, p.w, p.w, ci, ib-ia, false)
+	}
+	if i0 == 0 && i1 > 0 {
+		splitCol(p.fdst, p.ny, p.h)
 	}
 }
 
@@ -200,11 +209,20 @@ func (p *Plan2D) Inverse(dst []float64, src []complex128) {
 }
 
 // inverse1 does the meridional inverse transforms of worker k's columns, src → mid, ci columns at a time.
+// The columns i = 0 and i = h are transformed together, as column 0 of mid holding the Hermitian part of
+// column 0 plus i times that of column h (packed by joinCol).
 func (p *Plan2D) inverse1(k int) {
-	i0, i1 := p.span(k, p.w)
+	i0, i1 := p.span(k, p.h)
 	b0, b1 := p.bufs[k][0], p.bufs[k][1]
-	for ia := i0; ia < i1; ia += ci {
-		ib := min(ia+ci, i1)
+	n := i1 - i0
+	nc := (n + ci - 1) / ci
+	for c := 0; c < nc; c++ {
+		ia, ib := i0+c*n/nc, i0+(c+1)*n/nc
+		if ia == 0 {
+			joinCol(p.mid, p.isrc, p.ny, p.h, ib)
+			p.yb.run(p.mid, p.mid, b0, b1, p.w, p.w, ci, ib, true)
+			continue
+		}
 		p.yb.run(p.mid[ia:], p.isrc[ia:], b0, b1, p.w, p.w, ci, ib-ia, true)
 	}
 }
@@ -216,8 +234,10 @@ func (p *Plan2D) inverse2(k int) {
 	b0, b1 := p.bufs[k][0], p.bufs[k][1]
 	xs := p.xb.stages
 	last := len(xs) - 1
-	for ya := y0; ya < y1; ya += cy {
-		yb := min(ya+cy, y1)
+	n := y1 - y0
+	nc := (n + cy - 1) / cy
+	for c := 0; c < nc; c++ {
+		ya, yb := y0+c*n/nc, y0+(c+1)*n/nc
 		l := yb - ya
 		preT(b0, p.mid, p.ipre, p.ihalf, p.h, cy, ya, yb)
 		cur, nxt := b0, b1
