@@ -33,7 +33,7 @@ func tstGridded(g *qg.Grid, ph qg.Physics, plan *fft.Plan2D, psi [2][]complex128
 	p = out(func(i, j int, z complex128) complex128 { return z })
 	u = out(func(i, j int, z complex128) complex128 { return complex(0, -ly(j)) * z })
 	v = out(func(i, j int, z complex128) complex128 { return complex(0, kx(i)) * z })
-	lap := out(func(i, j int, z complex128) complex128 { return complex(-(kx(i)*kx(i) + ly(j)*ly(j)), 0) * z })
+	lap := out(func(i, j int, z complex128) complex128 { return complex(-(kx(i)*kx(i)+ly(j)*ly(j)), 0) * z })
 	other := make([]float64, np)
 	plan.Inverse(other, psi[1-n])
 	F := ph.F1
