@@ -167,6 +167,44 @@ func TestPhillipsGrowthRateEqualLayers(t *testing.T) {
 	}
 }
 
+// TestPhillipsNeutralModes checks two modes the Phillips problem predicts to
+// be neutral for δ = 1: a long wave stabilised by β (discriminant > 0 for
+// K⁴(4F² − K⁴) < β²F²/Us²) and a short wave beyond the cutoff K² > 2F,
+// stable whatever β and the shear (Phillips 1954; Vallis 2017, ch. 9). The
+// seed is a sum of two neutral normal modes, so its amplitude beats but
+// does not grow: the growth rate fitted over 17.5 to 30 e-folding times of the
+// fastest mode (many beat periods) must be under 1 % of the fastest growth
+// rate on the grid. (Beyond ~35 e-foldings the rounding noise of the initial
+// transform, amplified in the unstable modes, would become finite.)
+func TestPhillipsNeutralModes(t *testing.T) {
+	cfg := chkConfig(32, 16, 4e7, 1e7)
+	cfg.Beta, cfg.Ld, cfg.Delta = 1.6e-11, 7e5, 1
+	cfg.U1, cfg.U2 = 25, -5
+	cfg.Dt = 3600
+	g := chkModel(t, cfg).Grid()
+	f := 1 / (2 * cfg.Ld * cfg.Ld)
+	um, us := (cfg.U1+cfg.U2)/2, (cfg.U1-cfg.U2)/2
+	smax := 0.0
+	for i := 1; i <= 10; i++ {
+		k, _ := chkWavenumber(g, i, 0)
+		smax = math.Max(smax, k*imag(chkPhillipsC(cfg.Beta, f, k*k, um, us)))
+	}
+	for _, i := range []int{2, 10} {
+		k, _ := chkWavenumber(g, i, 0)
+		if c := chkPhillipsC(cfg.Beta, f, k*k, um, us); imag(c) != 0 {
+			t.Fatalf("setup: mode (%d,0) is not neutral (c = %v)", i, c)
+		}
+		if i == 10 && k*k <= 2*f {
+			t.Fatalf("setup: mode (10,0) is not beyond the short-wave cutoff")
+		}
+		got, _ := chkMeasureGrowth(t, cfg, i, 0, smax*12/30)
+		t.Logf("neutral mode (%d,0): fitted growth rate %.3g s⁻¹ (%.2g of the fastest, %.3g s⁻¹)", i, got, got/smax, smax)
+		if math.Abs(got) > 0.01*smax {
+			t.Errorf("mode (%d,0): growth rate %.3g s⁻¹, Phillips predicts a neutral mode (fastest growth %.3g)", i, got, smax)
+		}
+	}
+}
+
 // TestPhillipsGrowthRateUnequalLayers checks growth rates for δ = H1/H2 ≠ 1
 // against the eigenvalues of the 2×2 linear problem (gonum mat.Eigen).
 func TestPhillipsGrowthRateUnequalLayers(t *testing.T) {
