@@ -1,6 +1,7 @@
 package qg
 
 import (
+	"errors"
 	"math"
 	"math/rand/v2"
 	"testing"
@@ -152,5 +153,43 @@ func TestInvariantDriftAB3(t *testing.T) {
 	// practice: under 0.1 %).
 	if e900 > 1e-3 || z900 > 1e-2 {
 		t.Errorf("ab3: drift over 1000 steps: energy %.3g (bound 1e-3), enstrophy %.3g (bound 1e-2)", e900, z900)
+	}
+}
+
+// chkNaNSource is a Source whose increment is not finite.
+type chkNaNSource struct{ p int }
+
+func (s chkNaNSource) Increment(dq [2][]complex128, t, dt float64) {
+	dq[0][s.p] = complex(math.NaN(), 0)
+}
+
+// TestFailedStepRestoresLedger checks the ledger's contract, "the sum over
+// the terms equals the change of total energy" (Ledger doc; energy budget of
+// the model): a step that fails is undone (Step doc), so the ledger must be
+// as it was before the step, like the state, the time and the step count.
+func TestFailedStepRestoresLedger(t *testing.T) {
+	cfg := chkConfig(16, 16, 6e6, 6e6)
+	cfg.Beta, cfg.U1, cfg.U2, cfg.Drag = 1.6e-11, 10, 4, 1e-6
+	m := chkModel(t, cfg)
+	if err := m.SetStreamfunction(chkRandomState(m.Grid(), 3, 1.5, 7)); err != nil {
+		t.Fatal(err)
+	}
+	if err := m.Run(3); err != nil {
+		t.Fatal(err)
+	}
+	led0, t0, n0 := m.Ledger(), m.Time(), m.Steps()
+	ke0, ape0 := m.Energy()
+	m.AddSource(chkNaNSource{p: chkIndex(m.Grid(), 1, 1)})
+	err := m.Step()
+	var se *StepError
+	if !errors.As(err, &se) {
+		t.Fatalf("step with a NaN source returned %v, want a *StepError", err)
+	}
+	ke, ape := m.Energy()
+	if m.Time() != t0 || m.Steps() != n0 || ke != ke0 || ape != ape0 {
+		t.Errorf("failed step not undone: t %g → %g, steps %d → %d, E %g → %g", t0, m.Time(), n0, m.Steps(), ke0+ape0, ke+ape)
+	}
+	if led := m.Ledger(); led != led0 {
+		t.Errorf("failed step left its terms in the ledger:\n before %v\n after  %v", led0, led)
 	}
 }
