@@ -44,14 +44,16 @@ import (
 const (
 	chkLambRadius = 5e5
 	chkLambSpeed  = 5.0
+	// chkLambKa is the first zero of J1 (Abramowitz & Stegun 1964, table
+	// 9.5, from memory; checked against math.J1 in TestLambDipoleTranslates).
+	chkLambKa = 3.8317059702075125
 )
 
 // chkLambPV returns the gridded vorticity of a Lamb–Chaplygin dipole of
 // radius a and speed u centred at (x0, y0), moving towards +x.
 func chkLambPV(g *Grid, a, u, x0, y0 float64) []float64 {
-	const ka = 3.8317059702075125 // first zero of J1 (Abramowitz & Stegun 1964, table 9.5)
-	k := ka / a
-	amp := -2 * u * k / math.J0(ka)
+	k := chkLambKa / a
+	amp := -2 * u * k / math.J0(chkLambKa)
 	z := make([]float64, g.Nx*g.Ny)
 	for y := range g.Ny {
 		for x := range g.Nx {
@@ -170,6 +172,10 @@ func TestLambDipoleTranslates(t *testing.T) {
 		u      = chkLambSpeed
 		lOverA = 16.0
 	)
+	// The constant ka is a zero of J1 (Go's math.J1 as the reference).
+	if j := math.J1(chkLambKa); math.Abs(j) > 1e-12 {
+		t.Fatalf("J1(%v) = %g, not a zero", chkLambKa, j)
+	}
 	speed, minCorr, maxDy := chkLambRun(t, 256, lOverA, 2, 210, NoDissipation)
 	// Lamb (1932) §165a; Meleshko & van Heijst (1994): the dipole translates
 	// at its speed U, within 2 %.
