@@ -193,3 +193,49 @@ func TestFailedStepRestoresLedger(t *testing.T) {
 		t.Errorf("failed step left its terms in the ledger:\n before %v\n after  %v", led0, led)
 	}
 }
+
+// TestLedgerClosure checks the energy budget of the model (DESIGN §8,
+// "energy budget of the model"; Ledger doc): with shear, β, Ekman drag and
+// either dissipation, the sum of the ledger's terms equals the change of
+// KE + APE up to the time-stepping error, and each loss term has the sign
+// of a loss (drag, hyperviscosity and the filter remove energy).
+func TestLedgerClosure(t *testing.T) {
+	for _, diss := range []Dissipation{
+		{Kind: Hyperviscosity, Viscosity: 1e15, Order: 2},
+		{Kind: CutoffFilter, FilterTime: 3600, FilterCutoff: 0.6, FilterOrder: 4},
+	} {
+		cfg := chkConfig(32, 32, 6e6, 6e6)
+		cfg.Beta, cfg.Delta, cfg.U1, cfg.U2 = 1.6e-11, 0.5, 12, 2
+		cfg.Drag = 1 / (3 * 86400.0)
+		cfg.Dissipation = diss
+		cfg.Dt = 900
+		m := chkModel(t, cfg)
+		if err := m.SetStreamfunction(chkRandomState(m.Grid(), 8, 2, 99)); err != nil {
+			t.Fatal(err)
+		}
+		ke0, ape0 := m.Energy()
+		if err := m.Run(500); err != nil {
+			t.Fatal(err)
+		}
+		ke, ape := m.Energy()
+		led := m.Ledger()
+		de := ke + ape - ke0 - ape0
+		var gross float64
+		for _, v := range led {
+			gross += math.Abs(v)
+		}
+		t.Logf("%s: ΔE = %.6g m²/s², ledger sum %.6g (closure error %.2g of the gross %.3g); terms %v",
+			diss.Kind, de, led.Sum(), math.Abs(led.Sum()-de)/gross, gross, led)
+		// Energy budget of the model: closure to 1e-6 of the gross exchange
+		// over 500 RK4 steps (time-stepping error only, common practice).
+		if e := math.Abs(led.Sum()-de) / gross; e > 1e-6 {
+			t.Errorf("%s: ledger sum %.6g, energy change %.6g (error %.2g of the gross exchange)", diss.Kind, led.Sum(), de, e)
+		}
+		if led[TermDrag] >= 0 || led[TermHyperviscosity] > 0 || led[TermFilter] > 0 {
+			t.Errorf("%s: a loss term adds energy: drag %.3g, hyperviscosity %.3g, filter %.3g", diss.Kind, led[TermDrag], led[TermHyperviscosity], led[TermFilter])
+		}
+		if diss.Kind == Hyperviscosity && led[TermHyperviscosity] == 0 || diss.Kind == CutoffFilter && led[TermFilter] == 0 {
+			t.Errorf("%s: the dissipation booked nothing", diss.Kind)
+		}
+	}
+}
