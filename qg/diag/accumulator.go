@@ -256,7 +256,11 @@ func (a *Accumulator) gridFields(psi, q [2][]complex128) {
 	nk := g.Nkx
 	for n := range 2 {
 		a.plan.Inverse(a.psi[n], psi[n])
-		a.plan.Inverse(a.q[n], q[n])
+		// the domain mean of q (which a forcing may carry) is dynamically
+		// inert and has no streamfunction: leave it out
+		copy(a.spec, q[n])
+		a.spec[0] = 0
+		a.plan.Inverse(a.q[n], a.spec)
 		for p, s := range psi[n] {
 			a.spec[p] = mulI(-g.L[p/nk], s)
 		}

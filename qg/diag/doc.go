@@ -51,7 +51,8 @@
 //	    = −∇·(u′ζ′)_n                   relative-vorticity part
 //	      − ∇·(F_n u′(ψ_m − ψ_n)′)      interface (thickness, heat) part
 //
-// both flux components included; the flux fields are differentiated
+// both flux components included (q without its domain mean, which a
+// forcing may carry and which is dynamically inert); the flux fields are differentiated
 // spectrally and truncated to the model's retained modes. The induced
 // streamfunction tendency ψ_t solves the PV inversion of (C_1, C_2) (package
 // qg's Inverter), and the height tendency is f0 ψ_t / g, reported in

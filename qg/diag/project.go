@@ -21,6 +21,15 @@ type Projection struct {
 	DriftNorth float64 `json:"drift_north_km_per_day"`
 	// Unexplained is the fraction of ⟨X, X⟩ that the fit leaves.
 	Unexplained float64 `json:"unexplained"`
+	// Barotropic and Baroclinic are the rates (day⁻¹) on the pattern's
+	// barotropic part P_bt = (W1P1 + W2P2)(1, 1) and on its baroclinic
+	// (thermal) part P_bc = P − P_bt = (P1 − P2)(W2, −W1), two orthogonal
+	// patterns in either inner product, so that
+	// Rate = (Barotropic·⟨P_bt, P_bt⟩ + Baroclinic·⟨P_bc, P_bc⟩)/⟨P, P⟩.
+	// Baroclinic is 0 for a barotropic pattern (and Barotropic for a purely
+	// baroclinic one).
+	Barotropic float64 `json:"barotropic_rate_per_day"`
+	Baroclinic float64 `json:"baroclinic_rate_per_day"`
 }
 
 // Fit projects the spectral streamfunction tendency x (m² s⁻², both layers,
@@ -56,6 +65,20 @@ func Fit(g *qg.Grid, ph qg.Physics, norm Norm, x, p [2][]complex128) Projection 
 	pr.Rate = rhs[0] / gram[0][0] * day
 	if xx > 0 {
 		pr.Correlation = rhs[0] / math.Sqrt(xx*gram[0][0])
+	}
+	bt := [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
+	bc := [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
+	for q := range p[0] {
+		b := complex(ph.W1, 0)*p[0][q] + complex(ph.W2, 0)*p[1][q]
+		tau := p[0][q] - p[1][q]
+		bt[0][q], bt[1][q] = b, b
+		bc[0][q], bc[1][q] = complex(ph.W2, 0)*tau, complex(-ph.W1, 0)*tau
+	}
+	if nb := innerProduct(g, ph, norm, bt, bt); nb > 1e-12*gram[0][0] {
+		pr.Barotropic = innerProduct(g, ph, norm, x, bt) / nb * day
+	}
+	if nc := innerProduct(g, ph, norm, bc, bc); nc > 1e-12*gram[0][0] {
+		pr.Baroclinic = innerProduct(g, ph, norm, x, bc) / nc * day
 	}
 	c := solveGram(gram, rhs)
 	// a tendency −c_x ∂xP moves P east at c_x (m s⁻¹); 86.4 km day⁻¹ per m s⁻¹.

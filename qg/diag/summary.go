@@ -248,9 +248,9 @@ func (s Summary) String() string {
 		mode, s.Samples, s.StartDay, s.EndDay, s.Norm)
 	if s.HasPattern {
 		fmt.Fprintf(&b, "projection on the block (day⁻¹, > 0 reinforces; block height %.0f m):\n", s.BlockHeight)
-		fmt.Fprintf(&b, "  %-22s %9s %7s %9s %9s %7s\n", "", "rate", "corr", "east", "north", "unexpl")
+		fmt.Fprintf(&b, "  %-20s %9s %9s %9s %7s %8s %8s %7s\n", "", "rate", "barotr.", "barocl.", "corr", "east", "north", "unexpl")
 		row := func(name string, p Projection) {
-			fmt.Fprintf(&b, "  %-22s %+9.4f %+7.3f %+9.1f %+9.1f %7.3f\n", name, p.Rate, p.Correlation, p.DriftEast, p.DriftNorth, p.Unexplained)
+			fmt.Fprintf(&b, "  %-20s %+9.4f %+9.4f %+9.4f %+7.3f %+8.1f %+8.1f %7.3f\n", name, p.Rate, p.Barotropic, p.Baroclinic, p.Correlation, p.DriftEast, p.DriftNorth, p.Unexplained)
 		}
 		row("eddy PV flux", s.Eddy)
 		row("  vorticity flux", s.EddyVorticity)
