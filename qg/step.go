@@ -19,14 +19,15 @@ func (e *StepError) Error() string {
 }
 
 // Step advances the model by one time step. On error (NaN/Inf, or a CFL
-// number over Config.MaxCFL at the start of the step) the state is restored
-// to what it was before the step, and a *StepError names the time and the
-// field.
+// number over Config.MaxCFL at the start of the step) the state and the
+// energy ledger are restored to what they were before the step, and a
+// *StepError names the time and the field.
 func (m *Model) Step() error {
 	for n := range 2 {
 		copy(m.prev[n], m.q[n])
 	}
 	t0 := m.t
+	led := m.ledger
 	var err error
 	switch {
 	case m.cfg.Scheme == AB3 && m.nhist >= 2:
@@ -44,6 +45,7 @@ func (m *Model) Step() error {
 		m.inv.InvertAll(m.psi, m.q)
 		m.nhist = 0
 		m.t = t0
+		m.ledger = led
 		return err
 	}
 	m.steps++
