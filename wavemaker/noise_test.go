@@ -3,6 +3,7 @@ package wavemaker
 import (
 	"fmt"
 	"math"
+	"math/cmplx"
 	"testing"
 
 	"eddyblock/qg"
@@ -391,5 +392,51 @@ func TestRedInjectionLinearResponse(t *testing.T) {
 	}
 	if math.Abs(rate-want) > 0.04*want {
 		t.Errorf("red-noise injection %.5g m² s⁻³, linear response %.5g: off by more than 4%%", rate, want)
+	}
+}
+
+// TestIncrementIsRealBandLimited checks that an increment is the transform
+// of a real field confined to the band: its i = 0 column is Hermitian,
+// dq(0, −l) = conj dq(0, l) (the DFT of a real sequence; Bracewell, The
+// Fourier Transform and Its Applications), so a round trip through the grid
+// returns it unchanged; and it is nonzero exactly on the retained modes of
+// the band (wavelengths 800–4000 km in total wavenumber here).
+func TestIncrementIsRealBandLimited(t *testing.T) {
+	m := newModel(t, testModelConfig(3600, 1))
+	g := m.Grid()
+	wc := testNoiseConfig()
+	wc.Band = BandConfig{Kind: TotalBand, MinWavelength: 8e5, MaxWavelength: 4e6}
+	wc.Mask = MaskConfig{Kind: Patch, X: 2e6, Y: 6e6, WidthX: 1.5e6, WidthY: 1e6}
+	wc.Vertical = Barotropic
+	s := newNoise(t, wc, m)
+	dq := pair(len(g.K2))
+	s.Increment(dq, 0, 3600)
+	back := make([]complex128, len(g.K2))
+	plan := m.Plan()
+	grid := m.ToGrid(dq[0])
+	plan.Forward(back, grid)
+	var scale float64
+	for _, z := range dq[0] {
+		scale = math.Max(scale, cmplx.Abs(z))
+	}
+	for p, z := range dq[0] {
+		i, j := p%g.Nkx, p/g.Nkx
+		lambda := 2 * math.Pi / math.Sqrt(g.K2[p])
+		in := g.Keep[p] == 1 && g.K2[p] > 0 && lambda >= 8e5*(1-1e-9) && lambda <= 4e6*(1+1e-9)
+		if in != (z != 0) {
+			t.Fatalf("mode (i, j) = (%d, %d), wavelength %.4g m: coefficient %v, in band %v", i, j, lambda, z, in)
+		}
+		if dq[1][p] != z {
+			t.Fatalf("barotropic increment differs between the layers at (%d, %d)", i, j)
+		}
+		if cmplx.Abs(back[p]-z) > 1e-12*scale {
+			t.Fatalf("mode (%d, %d): %v after a round trip through the grid, %v before: not a real field", i, j, back[p], z)
+		}
+		if i == 0 {
+			jm := (g.Ny - j) % g.Ny
+			if cmplx.Abs(dq[0][jm*g.Nkx]-cmplx.Conj(z)) > 1e-12*scale {
+				t.Fatalf("i = 0 column not Hermitian at j = %d", j)
+			}
+		}
 	}
 }
