@@ -441,3 +441,44 @@ func TestNoAllocations(t *testing.T) {
 		t.Errorf("%v allocations per Forward+Inverse, want 0", n)
 	}
 }
+
+// TestBatchAgainstGonum checks the one-dimensional batched kernels (radix 2, 4 and 8 stages, both stage
+// plans) for every length 2..1024 against gonum's complex FFT (reference library), forward and inverse
+// (gonum's Sequence is the unnormalised inverse), with input and output row strides wider than the batch.
+func TestBatchAgainstGonum(t *testing.T) {
+	r := rand.New(rand.NewPCG(20, 21))
+	for n := 2; n <= 1024; n *= 2 {
+		for _, only4 := range []bool{false, true} {
+			b := newBatch(n, only4)
+			const l, bi, bo, ld = 5, 7, 9, 6
+			in := make([]complex128, n*bi)
+			for k := range in {
+				in[k] = complex(r.NormFloat64(), r.NormFloat64())
+			}
+			ref := fourier.NewCmplxFFT(n)
+			for _, inverse := range []bool{false, true} {
+				out := make([]complex128, n*bo)
+				b.run(out, in, make([]complex128, n*ld), make([]complex128, n*ld), bi, bo, ld, l, inverse)
+				for q := 0; q < l; q++ {
+					seq := make([]complex128, n)
+					for t := range seq {
+						seq[t] = in[q+bi*t]
+					}
+					var want []complex128
+					if inverse {
+						want = ref.Sequence(nil, seq)
+					} else {
+						want = ref.Coefficients(nil, seq)
+					}
+					got := make([]complex128, n)
+					for t := range got {
+						got[t] = out[q+bo*t]
+					}
+					if e := relErr(got, want); e > 1e-13 {
+						t.Errorf("n=%d only4=%v inverse=%v sequence %d: relative error %g", n, only4, inverse, q, e)
+					}
+				}
+			}
+		}
+	}
+}

@@ -59,8 +59,8 @@ func NewPlan2D(nx, ny, workers int) (*Plan2D, error) {
 	w := h + 1
 	p := &Plan2D{
 		nx: nx, ny: ny, workers: workers, h: h, w: w,
-		xb:  newBatch(h),
-		yb:  newBatch(ny),
+		xb:  newBatch(h, false),
+		yb:  newBatch(ny, false),
 		mid: make([]complex128, ny*w),
 	}
 	size := max(h*cy, ny*ci)
@@ -157,10 +157,14 @@ func (p *Plan2D) forward1(k int) {
 		l := yb - ya
 		cur, nxt := b0, b1
 		i := 0
-		if xs[0].radix == 4 {
+		switch xs[0].radix {
+		case 4:
 			fwd4Real(cur, p.fsrc[ya*p.nx:yb*p.nx], p.nx, p.h, cy, l, xs[0].fw)
 			i = 1
-		} else {
+		case 8:
+			fwd8Real(cur, p.fsrc[ya*p.nx:yb*p.nx], p.nx, p.h, cy, l, xs[0].fw)
+			i = 1
+		default:
 			packT(cur, p.fsrc, p.nx, cy, ya, yb)
 		}
 		for ; i < len(xs); i++ {
@@ -245,6 +249,10 @@ func (p *Plan2D) inverse2(k int) {
 			p.xb.do(i, nxt, cur, cy, cy, l, true)
 			cur, nxt = nxt, cur
 		}
-		bwdLastReal(p.idst[ya*p.nx:yb*p.nx], cur, p.nx, xs[last].radix, xs[last].r, cy, l)
+		if xs[last].radix == 8 {
+			bwdLast8Real(p.idst[ya*p.nx:yb*p.nx], cur, p.nx, xs[last].r, cy, l)
+		} else {
+			bwdLastReal(p.idst[ya*p.nx:yb*p.nx], cur, p.nx, xs[last].radix, xs[last].r, cy, l)
+		}
 	}
 }

@@ -15,8 +15,8 @@ import "math"
 
 // stage is one pass of a Stockham transform.
 type stage struct {
-	m, r, radix int          // sub-length, product of the earlier radices, radix (4 or 2)
-	fw          []complex128 // forward twiddles: fw[3p+k-1] = exp(−2πi·k·p/m), k = 1..3, p < m/4
+	m, r, radix int          // sub-length, product of the earlier radices, radix (2, 4 or 8)
+	fw          []complex128 // forward twiddles: fw[(radix−1)p+k−1] = exp(−2πi·k·p/m), k = 1..radix−1, p < m/radix
 	bw          []complex128 // backward (conjugate) twiddles
 }
 
@@ -26,28 +26,64 @@ type batch struct {
 	stages []stage
 }
 
-func newBatch(n int) batch {
+// radices returns the radices of the stages for a transform of length n = 2^k: radix 8 where it can,
+// radix 4 at the ends (the first and last stages have real-data variants for both), one radix 2 for n = 2.
+// With only4 it uses radix 4 (and one radix 2 for odd k) throughout.
+func radices(n int, only4 bool) []int {
+	k := 0
+	for 1<<k < n {
+		k++
+	}
+	var rs []int
+	switch {
+	case only4:
+		for ; k >= 2; k -= 2 {
+			rs = append(rs, 4)
+		}
+		if k == 1 {
+			rs = append(rs, 2)
+		}
+	case k == 1:
+		rs = []int{2}
+	case k%3 == 0:
+		for ; k > 0; k -= 3 {
+			rs = append(rs, 8)
+		}
+	case k%3 == 1: // 4·8·…·8·4
+		rs = append(rs, 4)
+		for k -= 4; k > 0; k -= 3 {
+			rs = append(rs, 8)
+		}
+		rs = append(rs, 4)
+	default: // 4·8·…·8
+		rs = append(rs, 4)
+		for k -= 2; k > 0; k -= 3 {
+			rs = append(rs, 8)
+		}
+	}
+	return rs
+}
+
+func newBatch(n int, only4 bool) batch {
 	b := batch{n: n}
-	r := 1
-	for m := n; m > 1; {
-		st := stage{m: m, r: r, radix: 4}
-		if m == 2 {
-			st.radix = 2
-		} else {
-			q := m / 4
-			st.fw = make([]complex128, 3*q)
-			st.bw = make([]complex128, 3*q)
+	r, m := 1, n
+	for _, radix := range radices(n, only4) {
+		st := stage{m: m, r: r, radix: radix}
+		if radix > 2 {
+			q := m / radix
+			st.fw = make([]complex128, (radix-1)*q)
+			st.bw = make([]complex128, (radix-1)*q)
 			for p := 0; p < q; p++ {
-				for k := 1; k <= 3; k++ {
+				for k := 1; k < radix; k++ {
 					sin, cos := math.Sincos(-2 * math.Pi * float64(k*p) / float64(m))
-					st.fw[3*p+k-1] = complex(cos, sin)
-					st.bw[3*p+k-1] = complex(cos, -sin)
+					st.fw[(radix-1)*p+k-1] = complex(cos, sin)
+					st.bw[(radix-1)*p+k-1] = complex(cos, -sin)
 				}
 			}
 		}
 		b.stages = append(b.stages, st)
-		m /= st.radix
-		r *= st.radix
+		m /= radix
+		r *= radix
 	}
 	return b
 }
@@ -58,6 +94,10 @@ func (b *batch) do(i int, y, x []complex128, bi, bo, l int, inverse bool) {
 	switch {
 	case st.radix == 2:
 		radix2(y, x, st.m, st.r, bi, bo, l)
+	case st.radix == 8 && inverse:
+		bwd8(y, x, st.m, st.r, bi, bo, l, st.bw)
+	case st.radix == 8:
+		fwd8(y, x, st.m, st.r, bi, bo, l, st.fw)
 	case inverse:
 		bwd4(y, x, st.m, st.r, bi, bo, l, st.bw)
 	default:
