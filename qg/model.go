@@ -254,12 +254,10 @@ func (m *Model) Streamfunction() [2][]float64 {
 // retained modes, for the scheme's stability interval on the imaginary axis.
 func (m *Model) checkLinearStability() error {
 	c := &m.cfg
-	kmax, _ := m.g.MaxKeptK()
 	umax := math.Max(math.Abs(c.U1), math.Abs(c.U2))
 	if cfl := umax * c.Dt / m.g.Dx; cfl > c.MaxCFL {
 		return &FieldError{"dt", c.Dt, fmt.Sprintf("the imposed flow alone gives a CFL number %.3g over max_cfl = %g; dt must be below %.4g s", cfl, c.MaxCFL, c.MaxCFL*m.g.Dx/umax)}
 	}
-	_ = kmax
 	var wmax float64
 	for p, k2 := range m.g.K2 {
 		if k2 == 0 || m.g.Keep[p] == 0 {
@@ -287,6 +285,21 @@ func (m *Model) checkLinearStability() error {
 	}
 	if wmax*c.Dt > limit {
 		return &FieldError{"dt", c.Dt, fmt.Sprintf("the fastest linear wave (ω = %.3g s⁻¹) is unstable with %s; dt must be below %.4g s", wmax, c.Scheme, limit/wmax)}
+	}
+	// Hyperviscosity is explicit: its fastest damping rate must lie in the
+	// scheme's stability interval on the negative real axis.
+	if m.hyper != nil {
+		var hmax float64
+		for _, h := range m.hyper {
+			hmax = math.Max(hmax, h)
+		}
+		real := 2.785 // RK4 on the negative real axis (common practice)
+		if c.Scheme == AB3 {
+			real = 6.0 / 11 // AB3 on the negative real axis (from memory)
+		}
+		if hmax*c.Dt > real {
+			return &FieldError{"dissipation.viscosity", c.Dissipation.Viscosity, fmt.Sprintf("the hyperviscous damping rate at the largest retained wavenumber, %.3g s⁻¹, is unstable with %s at dt = %g s; lower the viscosity below %.4g or dt below %.4g s", hmax, c.Scheme, c.Dt, c.Dissipation.Viscosity*real/(hmax*c.Dt), real/hmax)}
+		}
 	}
 	return nil
 }
