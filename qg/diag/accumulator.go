@@ -64,16 +64,15 @@ type Accumulator struct {
 	tau             []float64
 
 	// window accumulators (gridded): means and Welford co-moments
-	n                       int
-	mPsi, mU, mV, mZ, mQ    [2][]float64
-	cUU, cVV, cUV, cUZ, cVZ [2][]float64
-	cUT, cVT, cUQ, cVQ      [2][]float64
-	sMean                   [2][]complex128 // spectral mean ψ
-	s11, s22, s12           []float64       // spectral Welford co-moments of ψ1, ψ2
-	fMean                   [2][]complex128 // mean deterministic forcing tendency
-	fBuf                    [2][]complex128
-	first, last             [2][]complex128 // ψ at the first and last window samples
-	tFirst, tLast           float64
+	n             int
+	mPsi          [2][]float64
+	cells         [2][]cell       // per grid point: means and co-moments of layer n
+	sMean         [2][]complex128 // spectral mean ψ
+	s11, s22, s12 []float64       // spectral Welford co-moments of ψ1, ψ2
+	fMean         [2][]complex128 // mean deterministic forcing tendency
+	fBuf          [2][]complex128
+	first, last   [2][]complex128 // ψ at the first and last window samples
+	tFirst, tLast float64
 
 	// time series
 	lastT      float64
@@ -150,11 +149,10 @@ func New(m *qg.Model, opt Options) (*Accumulator, error) {
 		}
 	}
 	for n := range 2 {
-		for _, f := range []*[]float64{&a.psi[n], &a.u[n], &a.v[n], &a.z[n], &a.q[n],
-			&a.mPsi[n], &a.mU[n], &a.mV[n], &a.mZ[n], &a.mQ[n],
-			&a.cUU[n], &a.cVV[n], &a.cUV[n], &a.cUZ[n], &a.cVZ[n], &a.cUT[n], &a.cVT[n], &a.cUQ[n], &a.cVQ[n]} {
+		for _, f := range []*[]float64{&a.psi[n], &a.u[n], &a.v[n], &a.z[n], &a.q[n], &a.mPsi[n]} {
 			*f = make([]float64, np)
 		}
+		a.cells[n] = make([]cell, np)
 		a.sMean[n] = make([]complex128, ns)
 		a.fMean[n] = make([]complex128, ns)
 		a.fBuf[n] = make([]complex128, ns)
@@ -279,41 +277,60 @@ func (a *Accumulator) gridFields(psi, q [2][]complex128) {
 	}
 }
 
+// cell holds the running means of u, v, ζ, q of one layer at one grid
+// point and the Welford co-moments Σ(x − x̄_old)(y − ȳ_new) of u′u′, v′v′,
+// u′v′, u′ζ′, v′ζ′, u′τ′, v′τ′, u′q′, v′q′ (τ = ψ1 − ψ2). One record per
+// point keeps the update a single stream through memory.
+type cell struct {
+	mu, mv, mz, mq                     float64
+	uu, vv, uv, uz, vz, ut, vt, uq, vq float64
+}
+
 // welford updates the gridded means and co-moments with the current sample
 // (Welford 1962): x̄ ← x̄ + (x − x̄)/N, C_xy ← C_xy + (x − x̄_old)(y − ȳ_new).
+// It overwrites a.tau with the departure of ψ1 − ψ2 from its new mean.
 func (a *Accumulator) welford() {
 	w := 1 / float64(a.n)
 	np := len(a.tau)
-	mp1, mp2 := a.mPsi[0], a.mPsi[1]
-	for i := range np {
-		var du, dv [2]float64
-		for n := range 2 {
-			u, v := a.u[n][i], a.v[n][i]
-			du[n] = u - a.mU[n][i]
-			dv[n] = v - a.mV[n][i]
-			a.mU[n][i] += du[n] * w
-			a.mV[n][i] += dv[n] * w
-			a.mZ[n][i] += (a.z[n][i] - a.mZ[n][i]) * w
-			a.mQ[n][i] += (a.q[n][i] - a.mQ[n][i]) * w
-			a.mPsi[n][i] += (a.psi[n][i] - a.mPsi[n][i]) * w
-		}
-		et := a.tau[i] - (mp1[i] - mp2[i])
-		for n := range 2 {
-			eu := a.u[n][i] - a.mU[n][i]
-			ev := a.v[n][i] - a.mV[n][i]
-			ez := a.z[n][i] - a.mZ[n][i]
-			eq := a.q[n][i] - a.mQ[n][i]
-			a.cUU[n][i] += du[n] * eu
-			a.cVV[n][i] += dv[n] * ev
-			a.cUV[n][i] += du[n] * ev
-			a.cUZ[n][i] += du[n] * ez
-			a.cVZ[n][i] += dv[n] * ez
-			a.cUT[n][i] += du[n] * et
-			a.cVT[n][i] += dv[n] * et
-			a.cUQ[n][i] += du[n] * eq
-			a.cVQ[n][i] += dv[n] * eq
+	et := a.tau[:np]
+	p1, p2 := a.psi[0][:np], a.psi[1][:np]
+	mp1, mp2 := a.mPsi[0][:np], a.mPsi[1][:np]
+	for i := range et {
+		mp1[i] += (p1[i] - mp1[i]) * w
+		mp2[i] += (p2[i] - mp2[i]) * w
+		et[i] -= mp1[i] - mp2[i]
+	}
+	for n := range 2 {
+		u, v, z, q := a.u[n][:np], a.v[n][:np], a.z[n][:np], a.q[n][:np]
+		cs := a.cells[n][:np]
+		for i := range cs {
+			c := &cs[i]
+			du, dv := u[i]-c.mu, v[i]-c.mv
+			c.mu += du * w
+			c.mv += dv * w
+			c.mz += (z[i] - c.mz) * w
+			c.mq += (q[i] - c.mq) * w
+			eu, ev, ez, eq, e := u[i]-c.mu, v[i]-c.mv, z[i]-c.mz, q[i]-c.mq, et[i]
+			c.uu += du * eu
+			c.vv += dv * ev
+			c.uv += du * ev
+			c.uz += du * ez
+			c.vz += dv * ez
+			c.ut += du * e
+			c.vt += dv * e
+			c.uq += du * eq
+			c.vq += dv * eq
 		}
 	}
+}
+
+// field returns one quantity of the cells of layer n as a new field.
+func (a *Accumulator) field(n int, get func(c *cell) float64) []float64 {
+	f := make([]float64, len(a.cells[n]))
+	for i := range f {
+		f[i] = get(&a.cells[n][i])
+	}
+	return f
 }
 
 // spectral updates the per-mode mean and co-moments of ψ (for the eddy

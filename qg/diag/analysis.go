@@ -25,33 +25,31 @@ type analysis struct {
 func (a *Accumulator) moments(n int) eddyMoments {
 	np := len(a.tau)
 	w := 1 / float64(a.n)
-	mk := func(c, x, y []float64, yOff []float64) []float64 {
-		f := make([]float64, np)
-		for i := range f {
-			f[i] = c[i] * w
-			if a.raw {
-				yv := y[i]
-				if yOff != nil {
-					yv -= yOff[i]
-				}
-				f[i] += x[i] * yv
-			}
-		}
-		return f
+	var mo eddyMoments
+	for _, f := range []*[]float64{&mo.uu, &mo.vv, &mo.uv, &mo.uz, &mo.vz, &mo.ut, &mo.vt, &mo.uq, &mo.vq} {
+		*f = make([]float64, np)
 	}
-	mu, mv, mz, mq := a.mU[n], a.mV[n], a.mZ[n], a.mQ[n]
 	mp1, mp2 := a.mPsi[0], a.mPsi[1]
-	return eddyMoments{
-		uu: mk(a.cUU[n], mu, mu, nil),
-		vv: mk(a.cVV[n], mv, mv, nil),
-		uv: mk(a.cUV[n], mu, mv, nil),
-		uz: mk(a.cUZ[n], mu, mz, nil),
-		vz: mk(a.cVZ[n], mv, mz, nil),
-		ut: mk(a.cUT[n], mu, mp1, mp2),
-		vt: mk(a.cVT[n], mv, mp1, mp2),
-		uq: mk(a.cUQ[n], mu, mq, nil),
-		vq: mk(a.cVQ[n], mv, mq, nil),
+	for i := range np {
+		c := &a.cells[n][i]
+		mo.uu[i], mo.vv[i], mo.uv[i] = c.uu*w, c.vv*w, c.uv*w
+		mo.uz[i], mo.vz[i] = c.uz*w, c.vz*w
+		mo.ut[i], mo.vt[i] = c.ut*w, c.vt*w
+		mo.uq[i], mo.vq[i] = c.uq*w, c.vq*w
+		if a.raw {
+			mt := mp1[i] - mp2[i]
+			mo.uu[i] += c.mu * c.mu
+			mo.vv[i] += c.mv * c.mv
+			mo.uv[i] += c.mu * c.mv
+			mo.uz[i] += c.mu * c.mz
+			mo.vz[i] += c.mv * c.mz
+			mo.ut[i] += c.mu * mt
+			mo.vt[i] += c.mv * mt
+			mo.uq[i] += c.mu * c.mq
+			mo.vq[i] += c.mv * c.mq
+		}
 	}
+	return mo
 }
 
 // convergence sets dst to −∇·(fx, fy), spectral, truncated to the retained

@@ -86,9 +86,9 @@ func (a *Accumulator) Fields() Fields {
 		L := n + 1
 		psi, q, u := make([]float64, np), make([]float64, np), make([]float64, np)
 		copy(psi, a.mPsi[n])
-		copy(q, a.mQ[n])
-		copy(u, a.mU[n])
-		v := append([]float64(nil), a.mV[n]...)
+		copy(q, a.field(n, func(c *cell) float64 { return c.mq }))
+		copy(u, a.field(n, func(c *cell) float64 { return c.mu }))
+		v := a.field(n, func(c *cell) float64 { return c.mv })
 		if a.mode == qg.Fixed {
 			bp, bq := grid(a.blkPsi[n]), grid(a.blkQ[n])
 			bs := make([]complex128, len(g.K2))

@@ -71,7 +71,8 @@ func TestFixedModeEddies(t *testing.T) {
 		}
 		for i := range got {
 			if math.Abs(got[i]-c.want[i]) > 1e-11*sc {
-				t.Errorf("%s eddies: u′q′ at %d = %.12g, want %.12g", c.name, i, got[i], c.want[i]); break
+				t.Errorf("%s eddies: u′q′ at %d = %.12g, want %.12g", c.name, i, got[i], c.want[i])
+				break
 			}
 		}
 	}

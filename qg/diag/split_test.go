@@ -209,7 +209,7 @@ func TestWelfordAgainstTwoPass(t *testing.T) {
 	}
 	mom := a.moments(0)
 	for i := range np {
-		if e := math.Abs(a.mU[0][i]-mu[i]) / tstMaxAbs(mu); e > 1e-12 {
+		if e := math.Abs(a.cells[0][i].mu-mu[i]) / tstMaxAbs(mu); e > 1e-12 {
 			t.Errorf("mean u at %d: relative difference %.2g", i, e)
 		}
 		if e := math.Abs(mom.uu[i]-uu[i]) / uu[i]; e > 1e-12 {

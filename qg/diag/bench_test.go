@@ -1,0 +1,78 @@
+package diag
+
+import (
+	"fmt"
+	"math/rand/v2"
+	"testing"
+
+	"eddyblock/qg"
+	"eddyblock/qg/fft"
+)
+
+// benchSetup returns an n × n model with a fixed block and random eddies,
+// and an Accumulator on it.
+func benchSetup(b *testing.B, n int, opt Options) (*qg.Model, *Accumulator) {
+	cfg := tstConfig(n, n)
+	cfg.Dt = 600
+	m := tstModel(b, cfg)
+	dip := tstDipole(cfg, 2e7, 7e5, 1e6, 4e6, 4e6)
+	if err := m.SetBlock(qg.Block{Psi: [2][]float64{dip, dip}, Mode: qg.Forced}); err != nil {
+		b.Fatal(err)
+	}
+	plan, err := fft.NewPlan2D(n, n, 1)
+	if err != nil {
+		b.Fatal(err)
+	}
+	tstSetPsi(b, m, plan, tstRandomPsi(m.Grid(), rand.New(rand.NewPCG(1, 1)), 2, n/3))
+	return m, tstNew(b, m, opt)
+}
+
+// BenchmarkSample measures one Sample (after the spin-up) at 128² and 256².
+func BenchmarkSample(b *testing.B) {
+	for _, n := range []int{128, 256} {
+		b.Run(fmt.Sprintf("%d", n), func(b *testing.B) {
+			m, a := benchSetup(b, n, Options{})
+			t := 0.0
+			b.ResetTimer()
+			for range b.N {
+				t += 1800
+				m.SetTime(t)
+				if err := a.Sample(); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
+
+// BenchmarkSummaryFields measures Summary and Fields at 128².
+func BenchmarkSummaryFields(b *testing.B) {
+	m, a := benchSetup(b, 128, Options{})
+	for i := range 10 {
+		m.SetTime(float64(i+1) * 1800)
+		if err := a.Sample(); err != nil {
+			b.Fatal(err)
+		}
+	}
+	b.Run("Summary", func(b *testing.B) {
+		for range b.N {
+			_ = a.Summary()
+		}
+	})
+	b.Run("Fields", func(b *testing.B) {
+		for range b.N {
+			_ = a.Fields()
+		}
+	})
+}
+
+// BenchmarkStep is the model's RK4 step at 128², for scale.
+func BenchmarkStep128(b *testing.B) {
+	m, _ := benchSetup(b, 128, Options{})
+	b.ResetTimer()
+	for range b.N {
+		if err := m.Step(); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
