@@ -86,6 +86,18 @@
 // explains is reported too. On a periodic domain ψ_B is orthogonal to its
 // own derivatives in both inner products, so the fitted amplitude equals r.
 //
+// Each projection is also split between the barotropic part of the pattern,
+// P_bt = (W1P1 + W2P2)(1, 1), and its baroclinic (thermal) part
+// P_bc = P − P_bt, orthogonal in either inner product (Projection.Barotropic,
+// Projection.Baroclinic). The interface part of the eddy forcing is purely
+// baroclinic — its PV tendencies are −F1·D and F2·D for one divergence D,
+// since J(ψ1, ψ1 − ψ2) = J(ψ2, ψ1 − ψ2), and W1F1 = W2F2 — so it acts only on
+// the block's thermal anomaly and projects to zero on a barotropic block.
+// "The vorticity flux reinforces the block and the interface flux erodes
+// its thermal anomaly" (Shutts 1983; Hoskins, James & White 1983) reads
+// Summary.EddyVorticity.Rate > 0 and Summary.EddyInterface.Baroclinic < 0,
+// for a block with a baroclinic part.
+//
 // The projections are made for the eddy tendency and its two parts, for the
 // block's dissipation (drag, the scale-selective dissipation and the sponge,
 // evaluated on the reference state with qg.Model.TermTendency), for the

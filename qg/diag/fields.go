@@ -44,7 +44,8 @@ func (f Fields) Names() []string {
 // n = 1, 2 (suffix n):
 //
 //	psi_mean n, q_mean n, u_mean n, v_mean n  time means of the full flow (the
-//	                         block included in the fixed mode; u includes U_n)
+//	                         block included in the fixed mode; u includes U_n;
+//	                         q without its domain mean)
 //	psi_ref n                the reference state ψ̄ (see the package doc)
 //	uq n, vq n               eddy PV flux, m s⁻²
 //	uv n, eke n              eddy momentum flux u′v′ and kinetic energy, m² s⁻²
