@@ -123,3 +123,36 @@ func TestSummaryIndexConsistent(t *testing.T) {
 		t.Error("relaxed mode: no maintenance")
 	}
 }
+
+// EddyForcing gives the conv and zt fields of Fields.
+func TestEddyForcingMatchesFields(t *testing.T) {
+	m, cfg := tstForcedRun(t, 16, 16)
+	a := tstNew(t, m, Options{})
+	np := cfg.Nx * cfg.Ny
+	conv := [2][]float64{make([]float64, np), make([]float64, np)}
+	zt := [2][]float64{make([]float64, np), nil}
+	for range 100 {
+		if err := m.Step(); err != nil {
+			t.Fatal(err)
+		}
+		if err := a.Sample(); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := a.EddyForcing(conv, zt); err != nil {
+		t.Fatal(err)
+	}
+	f := a.Fields()
+	for name, got := range map[string][]float64{"conv1": conv[0], "conv2": conv[1], "zt1": zt[0]} {
+		want := tstGet(t, f, name)
+		sc := tstMaxAbs(want)
+		for i := range want {
+			if sc == 0 || math.Abs(got[i]-want[i]) > 1e-12*sc {
+				t.Fatalf("%s at %d: %g, Fields %g", name, i, got[i], want[i])
+			}
+		}
+	}
+	if err := a.EddyForcing([2][]float64{make([]float64, 3), nil}, [2][]float64{}); err == nil {
+		t.Error("a wrong size: no error")
+	}
+}

@@ -76,3 +76,24 @@ func BenchmarkStep128(b *testing.B) {
 		}
 	}
 }
+
+// BenchmarkEddyForcing measures the live convergence and height tendency at
+// 128².
+func BenchmarkEddyForcing(b *testing.B) {
+	m, a := benchSetup(b, 128, Options{})
+	for i := range 10 {
+		m.SetTime(float64(i+1) * 1800)
+		if err := a.Sample(); err != nil {
+			b.Fatal(err)
+		}
+	}
+	np := 128 * 128
+	conv := [2][]float64{make([]float64, np), make([]float64, np)}
+	zt := [2][]float64{make([]float64, np), make([]float64, np)}
+	b.ResetTimer()
+	for range b.N {
+		if err := a.EddyForcing(conv, zt); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

@@ -155,3 +155,55 @@ func (a *Accumulator) Fields() Fields {
 	add("heat_flux_k", "eddy heat flux v'T' between the layers' mid-levels", "K m s-1", scaled(hf, a.kelvinPerPsi()))
 	return f
 }
+
+// EddyForcing sets, cheaply enough for a live display, the gridded eddy PV
+// flux convergence C_n of the window so far (conv, s⁻²) and its height
+// tendency f0 ψ_t/g (height, m day⁻¹), each pair only if not nil; they are
+// the fields conv1, conv2 and zt1, zt2 of Fields. Without samples they are
+// zero.
+func (a *Accumulator) EddyForcing(conv, height [2][]float64) error {
+	np := len(a.tau)
+	for n := range 2 {
+		if conv[n] != nil && len(conv[n]) != np || height[n] != nil && len(height[n]) != np {
+			return fmt.Errorf("diag: EddyForcing: layer %d needs %d×%d points", n+1, a.g.Ny, a.g.Nx)
+		}
+	}
+	if a.n == 0 {
+		for n := range 2 {
+			clear(conv[n])
+			clear(height[n])
+		}
+		return nil
+	}
+	ns := len(a.g.K2)
+	c := [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
+	w := 1 / float64(a.n)
+	fx, fy := make([]float64, np), make([]float64, np)
+	for n := range 2 {
+		for i := range fx {
+			cl := &a.cells[n][i]
+			fx[i], fy[i] = cl.uq*w, cl.vq*w
+			if a.raw {
+				fx[i] += cl.mu * cl.mq
+				fy[i] += cl.mv * cl.mq
+			}
+		}
+		a.convergence(c[n], fx, fy)
+		if conv[n] != nil {
+			a.plan.Inverse(conv[n], c[n])
+		}
+	}
+	if height[0] != nil || height[1] != nil {
+		ps := a.streamTendency(c)
+		zc := a.cfg.F0 / qg.Gravity * day
+		for n := range 2 {
+			if height[n] != nil {
+				a.plan.Inverse(height[n], ps[n])
+				for i := range height[n] {
+					height[n][i] *= zc
+				}
+			}
+		}
+	}
+	return nil
+}
