@@ -482,3 +482,18 @@ func TestBatchAgainstGonum(t *testing.T) {
 		}
 	}
 }
+
+// TestRadicesLast4 checks the stage plans of the zonal transforms: the radices multiply to n and the
+// last one is 4 whenever n >= 4, n != 8 (so the post-processing can be fused with it).
+func TestRadicesLast4(t *testing.T) {
+	for n := 2; n <= 1<<14; n *= 2 {
+		rs := radicesLast4(n)
+		prod := 1
+		for _, r := range rs {
+			prod *= r
+		}
+		if prod != n || (n >= 4 && n != 8 && rs[len(rs)-1] != 4) {
+			t.Errorf("n=%d: radices %v", n, rs)
+		}
+	}
+}

@@ -23,7 +23,8 @@ type Plan2D struct {
 	nx, ny, workers int
 	h, w            int // nx/2 and nx/2+1
 
-	xb batch // length h along x, batch of cy rows (layout [k][row], transposed)
+	xf batch // forward zonal transforms, length h, last stage radix 4 (fused with the post-processing)
+	xi batch // inverse zonal transforms, length h, first stage radix 4 (fused with the pre-processing)
 	yb batch // length ny along y, batch of ci columns (layout [j][column])
 
 	fpost []complex128 // forward post-processing weights exp(−2πik/nx)/2, k = 0..h/2
@@ -59,7 +60,8 @@ func NewPlan2D(nx, ny, workers int) (*Plan2D, error) {
 	w := h + 1
 	p := &Plan2D{
 		nx: nx, ny: ny, workers: workers, h: h, w: w,
-		xb:  newBatch(h, false),
+		xf:  newBatchRadices(h, radicesLast4(h)),
+		xi:  newBatchRadices(h, reversed(radicesLast4(h))),
 		yb:  newBatch(ny, false),
 		mid: make([]complex128, ny*w),
 	}
@@ -91,6 +93,14 @@ func NewPlan2D(nx, ny, workers int) (*Plan2D, error) {
 		}
 	}
 	return p, nil
+}
+
+func reversed(rs []int) []int {
+	out := make([]int, len(rs))
+	for i, r := range rs {
+		out[len(rs)-1-i] = r
+	}
+	return out
 }
 
 func checkSize(name string, n int) error {
@@ -149,7 +159,9 @@ func (p *Plan2D) Forward(dst []complex128, src []float64) {
 func (p *Plan2D) forward1(k int) {
 	y0, y1 := p.span(k, p.ny)
 	b0, b1 := p.bufs[k][0], p.bufs[k][1]
-	xs := p.xb.stages
+	xs := p.xf.stages
+	last := len(xs) - 1
+	fused := xs[last].radix == 4
 	n := y1 - y0
 	nc := (n + cy - 1) / cy
 	for c := 0; c < nc; c++ {
@@ -167,11 +179,19 @@ func (p *Plan2D) forward1(k int) {
 		default:
 			packT(cur, p.fsrc, p.nx, cy, ya, yb)
 		}
-		for ; i < len(xs); i++ {
-			p.xb.do(i, nxt, cur, cy, cy, l, false)
+		end := len(xs)
+		if fused {
+			end = last
+		}
+		for ; i < end; i++ {
+			p.xf.do(i, nxt, cur, cy, cy, l, false)
 			cur, nxt = nxt, cur
 		}
-		postT(p.fdst, cur, p.fpost, p.h, cy, ya, yb)
+		if fused && i == last {
+			postLast4(p.fdst, cur, p.h, xs[last].r, cy, l, ya, p.fpost)
+		} else {
+			postT(p.fdst, cur, p.fpost, p.h, cy, ya, yb)
+		}
 	}
 }
 
@@ -236,17 +256,24 @@ func (p *Plan2D) inverse1(k int) {
 func (p *Plan2D) inverse2(k int) {
 	y0, y1 := p.span(k, p.ny)
 	b0, b1 := p.bufs[k][0], p.bufs[k][1]
-	xs := p.xb.stages
+	xs := p.xi.stages
 	last := len(xs) - 1
+	fused := xs[0].radix == 4 && last > 0
 	n := y1 - y0
 	nc := (n + cy - 1) / cy
 	for c := 0; c < nc; c++ {
 		ya, yb := y0+c*n/nc, y0+(c+1)*n/nc
 		l := yb - ya
-		preT(b0, p.mid, p.ipre, p.ihalf, p.h, cy, ya, yb)
 		cur, nxt := b0, b1
-		for i := 0; i < last; i++ {
-			p.xb.do(i, nxt, cur, cy, cy, l, true)
+		i := 0
+		if fused {
+			preFirst4(cur, p.mid, p.h, cy, l, ya, p.ipre, p.ihalf, xs[0].bw)
+			i = 1
+		} else {
+			preT(cur, p.mid, p.ipre, p.ihalf, p.h, cy, ya, yb)
+		}
+		for ; i < last; i++ {
+			p.xi.do(i, nxt, cur, cy, cy, l, true)
 			cur, nxt = nxt, cur
 		}
 		if xs[last].radix == 8 {

@@ -64,10 +64,42 @@ func radices(n int, only4 bool) []int {
 	return rs
 }
 
+// radicesLast4 returns radices ending in radix 4 (8·…·8·4·…·4, as few stages as possible), for the
+// forward zonal transform whose last stage is fused with the post-processing; reversed, they start with
+// radix 4 for the inverse one. n = 2 and n = 8 are done in one stage of radix 2 and 8.
+func radicesLast4(n int) []int {
+	k := 0
+	for 1<<k < n {
+		k++
+	}
+	if k == 1 {
+		return []int{2}
+	}
+	a := (k - 2) / 3
+	for a >= 0 && (k-3*a)%2 != 0 {
+		a--
+	}
+	var rs []int
+	if a < 0 { // k = 3
+		return []int{8}
+	}
+	for i := 0; i < a; i++ {
+		rs = append(rs, 8)
+	}
+	for i := 0; i < (k-3*a)/2; i++ {
+		rs = append(rs, 4)
+	}
+	return rs
+}
+
 func newBatch(n int, only4 bool) batch {
+	return newBatchRadices(n, radices(n, only4))
+}
+
+func newBatchRadices(n int, rs []int) batch {
 	b := batch{n: n}
 	r, m := 1, n
-	for _, radix := range radices(n, only4) {
+	for _, radix := range rs {
 		st := stage{m: m, r: r, radix: radix}
 		if radix > 2 {
 			q := m / radix
@@ -130,6 +162,7 @@ func gatherCols(dst, src []complex128, si, sd, l, n int) {
 	}
 }
 
+// radix2 is a radix-2 stage without twiddles, valid only as a last stage (sub-length 2).
 func radix2(y, x []complex128, m, R, bi, bo, l int) {
 	h := m / 2
 	for p := 0; p < h; p++ {
