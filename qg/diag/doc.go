@@ -18,6 +18,7 @@
 //	f := acc.Fields()   // named gridded fields (means, fluxes, convergences, tendencies)
 //	ts := acc.Series()  // energies, budget rates, CFL and block index per sample
 //	sp := acc.Spectra() // time-mean isotropic eddy energy spectra
+//	acc.EddyForcing(conv, dz) // cheap: just C_n and f0ψ_t/g, for a live display
 //
 // Every call to Sample enters the time series; only samples taken at model
 // time ≥ Options.Spinup enter the time means, eddy statistics and the
