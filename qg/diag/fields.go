@@ -16,9 +16,11 @@ type Field struct {
 
 // Fields are the gridded diagnostics of the averaging window.
 type Fields struct {
-	Nx, Ny int
-	Lx, Ly float64 // m
-	List   []Field
+	Nx   int     `json:"nx"`
+	Ny   int     `json:"ny"`
+	Lx   float64 `json:"lx"` // m
+	Ly   float64 `json:"ly"` // m
+	List []Field `json:"fields"`
 }
 
 // Get returns the field of the given name.
