@@ -29,11 +29,12 @@ func sampleWave(t *testing.T, m *qg.Model, a *Accumulator, cfg qg.Config, k, l, 
 }
 
 // A plane Rossby wave on a uniform flow carries no PV flux convergence: its
-// PV is proportional to its streamfunction in each layer, so u′q′ is along
-// the phase lines and ∇·(u′q′) = u′·∇q′ = 0 (Pedlosky 1987, §3.16: a single
-// plane wave is an exact nonlinear solution; Hoskins, James & White 1983).
-// The frequencies are the two-layer Rossby dispersion relations of the
-// barotropic and baroclinic modes (Pedlosky 1987, §6.16) for δ = 1.
+// PV varies in phase with its streamfunction in each layer, so u′q′ is along
+// the phase lines and ∇·(u′q′) = u′·∇q′ = 0 (by hand; a single plane Rossby
+// wave is an exact nonlinear solution, Pedlosky 1987). The frequencies are
+// the two-layer Rossby dispersion relations of the barotropic and
+// baroclinic modes for δ = 1 (Pedlosky 1987, from memory); the zero
+// convergence holds for any frequency.
 func TestPlaneRossbyWaveNoConvergence(t *testing.T) {
 	cfg := tstConfig(32, 32)
 	cfg.U1, cfg.U2 = 8, 8
