@@ -13,6 +13,7 @@ import (
 
 	"eddyblock/qg"
 	"eddyblock/qg/block"
+	"eddyblock/qg/diag"
 	"eddyblock/wavemaker"
 )
 
@@ -24,6 +25,18 @@ type Config struct {
 	Block     BlockConfig      `toml:"block" json:"block"`
 	Wavemaker wavemaker.Config `toml:"wavemaker" json:"wavemaker"`
 	Run       RunConfig        `toml:"run" json:"run"`
+	Diag      DiagConfig       `toml:"diagnostics" json:"diagnostics"`
+}
+
+// DiagConfig chooses how the diagnostics define eddies and project on the
+// block (see package qg/diag).
+type DiagConfig struct {
+	// Norm is the inner product of the projections: "energy" (the default)
+	// or "layer".
+	Norm diag.Norm `toml:"norm" json:"norm"`
+	// Transient, in the fixed mode, takes the eddies as departures from
+	// their own time mean instead of the whole eddy state.
+	Transient bool `toml:"transient" json:"transient"`
 }
 
 // BlockConfig is the prescribed block; Shape "none" runs without one.
@@ -70,6 +83,11 @@ func (c *Config) Validate() error {
 	}
 	if r.SpinUpDays >= r.Days {
 		return &qg.FieldError{Field: "run.spin_up_days", Value: r.SpinUpDays, Why: fmt.Sprintf("must be shorter than run.days = %g", r.Days)}
+	}
+	switch c.Diag.Norm {
+	case "", diag.EnergyNorm, diag.LayerNorm:
+	default:
+		return &qg.FieldError{Field: "diagnostics.norm", Value: string(c.Diag.Norm), Why: `must be "energy" or "layer"`}
 	}
 	if r.SampleSteps < 1 {
 		return &qg.FieldError{Field: "run.sample_steps", Value: r.SampleSteps, Why: "must be at least 1"}

@@ -6,6 +6,7 @@ import (
 	"math"
 
 	"eddyblock/qg"
+	"eddyblock/qg/diag"
 	"eddyblock/wavemaker"
 )
 
@@ -15,6 +16,9 @@ type Experiment struct {
 	Config Config
 	Model  *qg.Model
 	Maker  wavemaker.Maker
+	// Diag accumulates the diagnostics; Run samples it every
+	// Config.Run.SampleSteps steps, averaging after the spin-up.
+	Diag *diag.Accumulator
 	// HasBlock reports whether a block is prescribed.
 	HasBlock bool
 
@@ -48,6 +52,10 @@ func New(c Config) (*Experiment, error) {
 	}
 	mk.Attach(m)
 	e.Maker = mk
+	e.Diag, err = diag.New(m, diag.Options{Spinup: c.Run.SpinUpDays * 86400, Norm: c.Diag.Norm, Transient: c.Diag.Transient})
+	if err != nil {
+		return nil, err
+	}
 	return e, nil
 }
 
@@ -87,6 +95,11 @@ func (e *Experiment) Run(ctx context.Context, report func(Progress)) error {
 		if err := e.Model.Step(); err != nil {
 			return err
 		}
+		if e.Model.Steps()%c.Run.SampleSteps == 0 {
+			if err := e.Diag.Sample(); err != nil {
+				return err
+			}
+		}
 		if e.Model.Steps()%every == 0 || e.Model.Steps() == total {
 			p := e.progress(e0)
 			e0 = p.KE + p.APE
@@ -97,6 +110,9 @@ func (e *Experiment) Run(ctx context.Context, report func(Progress)) error {
 	}
 	return nil
 }
+
+// Summary returns the one-number answers of the run so far.
+func (e *Experiment) Summary() diag.Summary { return e.Diag.Summary() }
 
 // progress makes a Progress for the interval since the last one.
 func (e *Experiment) progress(e0 float64) Progress {

@@ -106,6 +106,8 @@ func cmdRun(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
+	fmt.Fprintln(stdout)
+	fmt.Fprintln(stdout, e.Summary())
 	fmt.Fprintf(stdout, "done: %d steps in %.1f s (%.2f ms per step)\n", e.Model.Steps(), wall.Seconds(), wall.Seconds()*1e3/float64(e.Model.Steps()))
 	return nil
 }
