@@ -60,7 +60,7 @@ type RunConfig struct {
 // Validate checks every part of the configuration and returns the first
 // problem, as a *qg.FieldError naming the key where there is one.
 func (c *Config) Validate() error {
-	if err := prefix("model.", c.Model.Validate()); err != nil {
+	if err := prefix("model.", c.Model.CheckTimeStep()); err != nil {
 		return err
 	}
 	if c.Block.Shape != NoBlock && c.Block.Shape != "" {

@@ -303,3 +303,17 @@ func (m *Model) checkLinearStability() error {
 	}
 	return nil
 }
+
+// CheckTimeStep validates the configuration and checks its time step against
+// the imposed flow's CFL number, the fastest linear wave and an explicit
+// hyperviscosity, as NewModel does, without building a model.
+func (c *Config) CheckTimeStep() error {
+	if err := c.Validate(); err != nil {
+		return err
+	}
+	g := NewGrid(c.Nx, c.Ny, c.Lx, c.Ly)
+	ph := c.Physics()
+	m := &Model{cfg: *c, ph: ph, g: g, inv: NewInverter(g, ph)}
+	m.setDissipation()
+	return m.checkLinearStability()
+}

@@ -1,0 +1,69 @@
+package experiment
+
+import (
+	"errors"
+	"reflect"
+	"strings"
+	"testing"
+
+	"eddyblock/qg"
+)
+
+// TestDefaultRoundTrip checks that the built-in experiment is valid and that
+// its TOML document reads back to the same configuration.
+func TestDefaultRoundTrip(t *testing.T) {
+	d := Default()
+	if err := d.Validate(); err != nil {
+		t.Fatalf("default experiment invalid: %v", err)
+	}
+	back, err := Decode(strings.NewReader(d.TOML()), Config{})
+	if err != nil {
+		t.Fatalf("default TOML does not decode: %v", err)
+	}
+	if !reflect.DeepEqual(back, d) {
+		t.Errorf("round trip changed the configuration:\n got %+v\nwant %+v", back, d)
+	}
+}
+
+// TestDecodeErrors checks that bad configurations are refused with errors
+// that name the offending key, and that a partial file keeps the defaults.
+func TestDecodeErrors(t *testing.T) {
+	for _, tc := range []struct {
+		doc, key string
+	}{
+		{"[model]\nnx = 100\n", "model.nx"},
+		{"[model]\ndt = -5.0\n", "model.dt"},
+		{"[model]\ndt = 1e5\n", "model.dt"},
+		{"[model]\nld = nan\n", "model.ld"},
+		{"[run]\ndays = 0.0\n", "run.days"},
+		{"[run]\nspin_up_days = 500.0\n", "run.spin_up_days"},
+		{"[run]\nsample_steps = 0\n", "run.sample_steps"},
+		{"[block.dipole]\nradius = -1.0\n", "block.dipole.radius"},
+		{"[block]\nmode = \"sideways\"\n", "block.mode"},
+		{"[wavemaker]\ninjection_rate = -1.0\n", "wavemaker.injection_rate"},
+		{"[wavemaker.band]\nmin_wavelength = 1.0\nmax_wavelength = 2.0\n", "wavemaker.band"},
+		{"[wavemaker.mask]\nx = -3.0e6\n", "wavemaker.mask.x"},
+		{"[diagnostics]\nnorm = \"taxicab\"\n", "diagnostics.norm"},
+	} {
+		_, err := Decode(strings.NewReader(tc.doc), Default())
+		var fe *qg.FieldError
+		if !errors.As(err, &fe) || !strings.HasPrefix(fe.Field, tc.key) {
+			t.Errorf("%q: got %v, want an error naming %s", tc.doc, err, tc.key)
+		}
+	}
+	_, err := Decode(strings.NewReader("[model]\nnxx = 64\n"), Default())
+	if err == nil || !strings.Contains(err.Error(), "model.nxx") {
+		t.Errorf("unknown key: got %v, want it named", err)
+	}
+	_, err = Decode(strings.NewReader("[model\n"), Default())
+	if err == nil {
+		t.Error("malformed TOML accepted")
+	}
+	c, err := Decode(strings.NewReader("[run]\ndays = 10.0\nspin_up_days = 2.0\n"), Default())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if c.Run.Days != 10 || c.Model != Default().Model {
+		t.Errorf("partial file: run.days = %g, model changed: %v", c.Run.Days, c.Model != Default().Model)
+	}
+}
