@@ -34,6 +34,9 @@ const (
 	// Patch: a Gaussian patch m = exp(−(dx/wx)² − (dy/wy)²), with dx, dy
 	// the periodic distances to the centre.
 	Patch MaskKind = "patch"
+	// Patches: a sum of Gaussian patches, each as in Patch, listed in
+	// MaskConfig.Patches (for example a storm track split in two branches).
+	Patches MaskKind = "patches"
 )
 
 // BandKind selects how the wavenumber band is measured.
@@ -76,6 +79,32 @@ type MaskConfig struct {
 	// at the periodic antipode (m ≤ e⁻⁴ there).
 	WidthX float64 `toml:"width_x" json:"width_x"`
 	WidthY float64 `toml:"width_y" json:"width_y"`
+	// Patches lists the patches of the mask kind "patches".
+	Patches []PatchConfig `toml:"patches" json:"patches,omitempty"`
+}
+
+// PatchConfig is one Gaussian patch of a "patches" mask.
+type PatchConfig struct {
+	X      float64 `toml:"x" json:"x"`             // centre, m from the western edge
+	Y      float64 `toml:"y" json:"y"`             // centre, m from the southern edge
+	WidthX float64 `toml:"width_x" json:"width_x"` // e-folding half-width in x, m
+	WidthY float64 `toml:"width_y" json:"width_y"` // e-folding half-width in y, m
+}
+
+// patches returns the mask's patches: the single patch of kind "patch", the
+// list of kind "patches", none otherwise, with the keys that name them.
+func (mk MaskConfig) patches() ([]PatchConfig, []string) {
+	switch mk.Kind {
+	case Patch:
+		return []PatchConfig{{mk.X, mk.Y, mk.WidthX, mk.WidthY}}, []string{"mask."}
+	case Patches:
+		keys := make([]string, len(mk.Patches))
+		for i := range keys {
+			keys[i] = fmt.Sprintf("mask.patches[%d].", i)
+		}
+		return mk.Patches, keys
+	}
+	return nil, nil
 }
 
 // BandConfig is the wavenumber band of the noise, as a range of wavelengths.
@@ -180,23 +209,29 @@ func (c *Config) Validate() error {
 	mk := c.Mask
 	switch mk.Kind {
 	case NoMask:
-	case Patch:
-		for _, f := range []struct {
-			key string
-			v   float64
-		}{{"mask.x", mk.X}, {"mask.y", mk.Y}} {
-			if !isFinite(f.v) || f.v < 0 {
-				return fieldErr(f.key, f.v, "the patch centre must be a finite coordinate in the domain, 0 or greater")
+	case Patch, Patches:
+		if mk.Kind == Patches && len(mk.Patches) == 0 {
+			return fieldErr("mask.patches", 0, `a mask of kind "patches" needs at least one patch`)
+		}
+		ps, keys := mk.patches()
+		for i, p := range ps {
+			for _, f := range []struct {
+				key string
+				v   float64
+			}{{keys[i] + "x", p.X}, {keys[i] + "y", p.Y}} {
+				if !isFinite(f.v) || f.v < 0 {
+					return fieldErr(f.key, f.v, "the patch centre must be a finite coordinate in the domain, 0 or greater")
+				}
+			}
+			if err := positive(keys[i]+"width_x", p.WidthX); err != nil {
+				return err
+			}
+			if err := positive(keys[i]+"width_y", p.WidthY); err != nil {
+				return err
 			}
 		}
-		if err := positive("mask.width_x", mk.WidthX); err != nil {
-			return err
-		}
-		if err := positive("mask.width_y", mk.WidthY); err != nil {
-			return err
-		}
 	default:
-		return fieldErr("mask.kind", string(mk.Kind), `must be "none" or "patch"`)
+		return fieldErr("mask.kind", string(mk.Kind), `must be "none", "patch" or "patches"`)
 	}
 	if c.Kind == WaveTrain {
 		tr := c.Train
@@ -253,19 +288,19 @@ func (c *Config) ValidateFor(qc qg.Config) error {
 	if err := qc.Validate(); err != nil {
 		return fmt.Errorf("wavemaker: the model configuration is invalid: %w", err)
 	}
-	mk := c.Mask
-	if mk.Kind == Patch {
-		if mk.X > qc.Lx {
-			return fieldErr("mask.x", mk.X, "the patch centre lies outside the domain, 0 to lx = %g m", qc.Lx)
+	ps, keys := c.Mask.patches()
+	for i, p := range ps {
+		if p.X > qc.Lx {
+			return fieldErr(keys[i]+"x", p.X, "the patch centre lies outside the domain, 0 to lx = %g m", qc.Lx)
 		}
-		if mk.Y > qc.Ly {
-			return fieldErr("mask.y", mk.Y, "the patch centre lies outside the domain, 0 to ly = %g m", qc.Ly)
+		if p.Y > qc.Ly {
+			return fieldErr(keys[i]+"y", p.Y, "the patch centre lies outside the domain, 0 to ly = %g m", qc.Ly)
 		}
-		if mk.WidthX > qc.Lx/4 {
-			return fieldErr("mask.width_x", mk.WidthX, "must be at most a quarter of the domain length lx = %g m", qc.Lx)
+		if p.WidthX > qc.Lx/4 {
+			return fieldErr(keys[i]+"width_x", p.WidthX, "must be at most a quarter of the domain length lx = %g m", qc.Lx)
 		}
-		if mk.WidthY > qc.Ly/4 {
-			return fieldErr("mask.width_y", mk.WidthY, "must be at most a quarter of the domain length ly = %g m", qc.Ly)
+		if p.WidthY > qc.Ly/4 {
+			return fieldErr(keys[i]+"width_y", p.WidthY, "must be at most a quarter of the domain length ly = %g m", qc.Ly)
 		}
 	}
 	g := qg.NewGrid(qc.Nx, qc.Ny, qc.Lx, qc.Ly)

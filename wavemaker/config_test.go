@@ -37,6 +37,13 @@ func TestValidate(t *testing.T) {
 		{"patch y NaN", noise, func(c *Config) { c.Mask.Y = nan }, "wavemaker.mask.y"},
 		{"patch north of domain", noise, func(c *Config) { c.Mask.Y = 9e6 }, "wavemaker.mask.y"},
 		{"zero width x", noise, func(c *Config) { c.Mask.WidthX = 0 }, "wavemaker.mask.width_x"},
+		{"no patches", noise, func(c *Config) { c.Mask = MaskConfig{Kind: Patches} }, "wavemaker.mask.patches"},
+		{"second patch outside", noise, func(c *Config) {
+			c.Mask = MaskConfig{Kind: Patches, Patches: []PatchConfig{{1e6, 1e6, 5e5, 5e5}, {1e6, 9e6, 5e5, 5e5}}}
+		}, "wavemaker.mask.patches[1].y"},
+		{"second patch too wide", noise, func(c *Config) {
+			c.Mask = MaskConfig{Kind: Patches, Patches: []PatchConfig{{1e6, 1e6, 5e5, 5e5}, {1e6, 2e6, 5e5, -1}}}
+		}, "wavemaker.mask.patches[1].width_y"},
 		{"wide patch x", noise, func(c *Config) { c.Mask.WidthX = 5e6 }, "wavemaker.mask.width_x"},
 		{"negative width y", noise, func(c *Config) { c.Mask.WidthY = -1 }, "wavemaker.mask.width_y"},
 		{"wide patch y", noise, func(c *Config) { c.Mask.WidthY = 3e6 }, "wavemaker.mask.width_y"},

@@ -68,6 +68,9 @@ func TestWhiteNormalisation(t *testing.T) {
 		{Lower, patch, BandConfig{TotalBand, 5e5, 2.7e6}, 3600, 3},
 		{Barotropic, patch, BandConfig{ZonalBand, 8e5, 4e6}, 1800, 4},
 		{Baroclinic, patch, BandConfig{TotalBand, 1e6, 8e6}, 3600, 5},
+		// Two patches (a storm track split in two branches): the same
+		// covariance formula with ⟨m²⟩ of the summed mask.
+		{Upper, MaskConfig{Kind: Patches, Patches: []PatchConfig{{3e6, 2e6, 1.5e6, 1e6}, {3e6, 6e6, 1.5e6, 1e6}}}, BandConfig{TotalBand, 5e5, 2.7e6}, 3600, 6},
 	}
 	for _, c := range cases {
 		t.Run(fmt.Sprintf("%s/%s/%s/dt=%g", c.vert, c.mask.Kind, c.band.Kind, c.dt), func(t *testing.T) {

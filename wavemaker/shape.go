@@ -6,24 +6,27 @@ import (
 	"eddyblock/qg"
 )
 
-// maskField returns the gridded mask m(x, y) (Ny rows of Nx points), or nil
-// for NoMask (m = 1).
+// maskField returns the gridded mask m(x, y) (Ny rows of Nx points), the sum
+// of the mask's Gaussian patches, or nil for NoMask (m = 1).
 func maskField(g *qg.Grid, mk MaskConfig) []float64 {
-	if mk.Kind != Patch {
+	ps, _ := mk.patches()
+	if len(ps) == 0 {
 		return nil
 	}
-	fx := make([]float64, g.Nx)
-	for x := range fx {
-		d := qg.PeriodicDistance(g.X(x), mk.X, g.Lx) / mk.WidthX
-		fx[x] = math.Exp(-d * d)
-	}
 	m := make([]float64, g.Nx*g.Ny)
-	for y := range g.Ny {
-		d := qg.PeriodicDistance(g.Y(y), mk.Y, g.Ly) / mk.WidthY
-		fy := math.Exp(-d * d)
-		row := m[y*g.Nx : (y+1)*g.Nx]
-		for x := range row {
-			row[x] = fy * fx[x]
+	fx := make([]float64, g.Nx)
+	for _, p := range ps {
+		for x := range fx {
+			d := qg.PeriodicDistance(g.X(x), p.X, g.Lx) / p.WidthX
+			fx[x] = math.Exp(-d * d)
+		}
+		for y := range g.Ny {
+			d := qg.PeriodicDistance(g.Y(y), p.Y, g.Ly) / p.WidthY
+			fy := math.Exp(-d * d)
+			row := m[y*g.Nx : (y+1)*g.Nx]
+			for x := range row {
+				row[x] += fy * fx[x]
+			}
 		}
 	}
 	return m
