@@ -42,7 +42,8 @@ func TestDecodeErrors(t *testing.T) {
 		{"[block]\nmode = \"sideways\"\n", "block.mode"},
 		{"[wavemaker]\ninjection_rate = -1.0\n", "wavemaker.injection_rate"},
 		{"[wavemaker.band]\nmin_wavelength = 1.0\nmax_wavelength = 2.0\n", "wavemaker.band"},
-		{"[wavemaker.mask]\nx = -3.0e6\n", "wavemaker.mask.x"},
+		{"[wavemaker.mask]\nkind = \"patch\"\nx = -3.0e6\n", "wavemaker.mask.x"},
+		{"[wavemaker.mask]\npatches = [{x = 1e6, y = 2e7, width_x = 1e6, width_y = 1e6}]\n", "wavemaker.mask.patches[0].y"},
 		{"[diagnostics]\nnorm = \"taxicab\"\n", "diagnostics.norm"},
 	} {
 		_, err := Decode(strings.NewReader(tc.doc), Default())
