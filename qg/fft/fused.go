@@ -97,12 +97,11 @@ func postLast4(dst, x []complex128, h, R, bi, l, ya int, hw []complex128) {
 	}
 }
 
-// preFirst4 forms the pre-processed sequences Z of rows ya.. of src (row length h+1, column 0 holding
+// preFirst4 forms the pre-processed sequences Z of rows ya.. of src (row stride w > h−1, column 0 holding
 // X[0] + i·X[h]) and runs the first inverse stage (radix 4, sub-length h, R = 1) on them, writing the
 // chunk buffer y with row stride bo. tw are the stage's backward twiddles. (prePair and first4 are
 // written out by hand in the loop: the compiler does not inline them.)
-func preFirst4(y, src []complex128, h, bo, l, ya int, hw []complex128, half float64, tw []complex128) {
-	w := h + 1
+func preFirst4(y, src []complex128, h, w, bo, l, ya int, hw []complex128, half float64, tw []complex128) {
 	m0 := h / 4
 	hw = hw[:h/2+1]
 	tw = tw[:3*m0]

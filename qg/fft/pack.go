@@ -76,11 +76,10 @@ func postT(dst, src []complex128, hw []complex128, h, ld, ya, yb int) {
 	}
 }
 
-// preT is the inverse of postT, scaled by c: from the spectra X[k] (src[y*(h+1)+k]) of rows ya..yb-1 it
+// preT is the inverse of postT, scaled by c: from the spectra X[k] (src[y*w+k]) of rows ya..yb-1 it
 // forms Z[k] = c·(E + i·O), E = (X[k] + conj X[h−k])/2, O = W^−k·(X[k] − conj X[h−k])/2, stored in
-// dst[k*ld+(y−ya)]. X[0] and X[h] are read packed as src[y*(h+1)] = X[0] + i·X[h]. hw[k] = c·W^k/2 and half = c/2.
-func preT(dst, src []complex128, hw []complex128, half float64, h, ld, ya, yb int) {
-	w := h + 1
+// dst[k*ld+(y−ya)]. X[0] and X[h] are read packed as src[y*w] = X[0] + i·X[h]. hw[k] = c·W^k/2 and half = c/2.
+func preT(dst, src []complex128, hw []complex128, half float64, h, w, ld, ya, yb int) {
 	n := yb - ya
 	z0 := dst[:n]
 	for q := range z0 {
@@ -127,11 +126,11 @@ func splitCol(a []complex128, ny, h int) {
 	}
 }
 
-// joinCol fills columns 0..ib−1 of dst (row-major ny×(h+1)) from src: column 0 gets H0 + i·Hh, where
+// joinCol fills columns 0..ib−1 of dst (row stride wd) from src (ny×(h+1)): column 0 gets H0 + i·Hh, where
 // H0[j] = (c[j][0] + conj c[−j][0])/2 and Hh likewise from column h are the Hermitian parts of the
 // columns i = 0 and i = h of src, whose inverse transforms are the real sequences x0 and xh, so the
 // inverse transform of column 0 is x0 + i·xh. Columns 1..ib−1 are copied.
-func joinCol(dst, src []complex128, ny, h, ib int) {
+func joinCol(dst, src []complex128, ny, h, ib, wd int) {
 	w := h + 1
 	for j := 0; j < ny; j++ {
 		m := (ny - j) % ny
@@ -139,7 +138,7 @@ func joinCol(dst, src []complex128, ny, h, ib int) {
 		ch, chm := src[j*w+h], src[m*w+h]
 		h0r, h0i := 0.5*(real(c0)+real(c0m)), 0.5*(imag(c0)-imag(c0m))
 		hhr, hhi := 0.5*(real(ch)+real(chm)), 0.5*(imag(ch)-imag(chm))
-		dst[j*w] = complex(h0r-hhi, h0i+hhr)
-		copy(dst[j*w+1:j*w+ib], src[j*w+1:j*w+ib])
+		dst[j*wd] = complex(h0r-hhi, h0i+hhr)
+		copy(dst[j*wd+1:j*wd+ib], src[j*w+1:j*w+ib])
 	}
 }

@@ -3,7 +3,7 @@ package fft
 import (
 	"fmt"
 	"math"
-	"sync"
+	"runtime"
 )
 
 // Chunk sizes of the cache-blocked passes: the zonal transforms are done cy rows at a time and the
@@ -18,8 +18,16 @@ const (
 // i = 0..nx/2 is the zonal wavenumber index and j = 0..ny-1 the meridional one (j > ny/2 are negative).
 //
 // A Plan2D owns its scratch buffers and is not safe for concurrent use: give each goroutine its own plan.
-// Forward and Inverse panic if a slice has the wrong length.
+// Forward and Inverse panic if a slice has the wrong length. A plan with workers > 1 keeps workers−1
+// helper goroutines, which poll for about a millisecond after each transform and then sleep; they end
+// when the plan is garbage collected.
 type Plan2D struct {
+	*core
+	team *team // nil for one worker
+}
+
+// core holds everything the workers use.
+type core struct {
 	nx, ny, workers int
 	h, w            int // nx/2 and nx/2+1
 
@@ -31,7 +39,11 @@ type Plan2D struct {
 	ipre  []complex128 // inverse pre-processing weights c·exp(−2πik/nx)/2, c = 1/(ny·h)
 	ihalf float64      // c/2
 
-	mid  []complex128      // ny·w: the inverse's meridional result, input of its zonal pass
+	// mid (ny rows of stride ws) holds meridional partial results for the columns 0..h−1: the inverse's
+	// meridional result, or the forward's before its last meridional stage. ws is h rounded up to whole
+	// cache lines, so column ranges split at multiples of 4 share no cache line between workers.
+	mid  []complex128
+	ws   int
 	bufs [][2][]complex128 // per-worker ping-pong buffers
 
 	// per-call arguments for the worker goroutines
@@ -39,9 +51,6 @@ type Plan2D struct {
 	fdst []complex128
 	isrc []complex128
 	idst []float64
-
-	wg    sync.WaitGroup
-	tasks [4][]func() // goroutine bodies for workers 1..workers-1: fwd1, fwd2, inv1, inv2
 }
 
 // NewPlan2D makes a plan for nx, ny powers of two, each >= 4. workers >= 1 is the number of goroutines a
@@ -58,13 +67,14 @@ func NewPlan2D(nx, ny, workers int) (*Plan2D, error) {
 	}
 	h := nx / 2
 	w := h + 1
-	p := &Plan2D{
+	p := &core{
 		nx: nx, ny: ny, workers: workers, h: h, w: w,
-		xf:  newBatchRadices(h, radicesLast4(h)),
-		xi:  newBatchRadices(h, reversed(radicesLast4(h))),
-		yb:  newBatch(ny, false),
-		mid: make([]complex128, ny*w),
+		xf: newBatchRadices(h, radicesLast4(h)),
+		xi: newBatchRadices(h, reversed(radicesLast4(h))),
+		yb: newBatch(ny, false),
 	}
+	p.ws = (h + 3) / 4 * 4
+	p.mid = make([]complex128, ny*p.ws)
 	size := max(h*cy, ny*ci)
 	p.bufs = make([][2][]complex128, workers)
 	for k := range p.bufs {
@@ -77,22 +87,28 @@ func NewPlan2D(nx, ny, workers int) (*Plan2D, error) {
 		p.fpost = append(p.fpost, complex(0.5*cos, 0.5*sin))
 		p.ipre = append(p.ipre, complex(0.5*scale*cos, 0.5*scale*sin))
 	}
-	for ph := range p.tasks {
-		p.tasks[ph] = make([]func(), workers)
-		for k := 1; k < workers; k++ {
-			switch ph {
-			case 0:
-				p.tasks[ph][k] = func() { p.forward1(k); p.wg.Done() }
-			case 1:
-				p.tasks[ph][k] = func() { p.forward2(k); p.wg.Done() }
-			case 2:
-				p.tasks[ph][k] = func() { p.inverse1(k); p.wg.Done() }
-			case 3:
-				p.tasks[ph][k] = func() { p.inverse2(k); p.wg.Done() }
-			}
-		}
+	plan := &Plan2D{core: p}
+	if workers > 1 {
+		plan.team = newTeam(workers, p.phase)
+		runtime.AddCleanup(plan, func(t *team) { t.shutdown() }, plan.team)
 	}
-	return p, nil
+	return plan, nil
+}
+
+// phase runs phase ph (0, 1, 2: Forward; 3, 4: Inverse) for worker k.
+func (p *core) phase(ph, k int) {
+	switch ph {
+	case 0:
+		p.forward1(k)
+	case 1:
+		p.forward2(k)
+	case 2:
+		p.forward3(k)
+	case 3:
+		p.inverse1(k)
+	case 4:
+		p.inverse2(k)
+	}
 }
 
 func reversed(rs []int) []int {
@@ -119,23 +135,24 @@ func (p *Plan2D) Ny() int { return p.ny }
 // Workers returns the number of goroutines a transform may use.
 func (p *Plan2D) Workers() int { return p.workers }
 
+// spanCols returns worker k's share [lo, hi) of the h columns, split at multiples of 4 columns.
+func (p *core) spanCols(k int) (int, int) {
+	u := (p.h + 3) / 4
+	return min(p.h, k*u/p.workers*4), min(p.h, (k+1)*u/p.workers*4)
+}
+
 // span returns worker k's share [lo, hi) of n items.
-func (p *Plan2D) span(k, n int) (int, int) {
+func (p *core) span(k, n int) (int, int) {
 	return k * n / p.workers, (k + 1) * n / p.workers
 }
 
 // parallel runs phase ph on all workers and waits for them.
-func (p *Plan2D) parallel(ph int, self func(int)) {
-	if p.workers == 1 {
-		self(0)
+func (p *Plan2D) parallel(ph int) {
+	if p.team == nil {
+		p.phase(ph, 0)
 		return
 	}
-	p.wg.Add(p.workers - 1)
-	for k := 1; k < p.workers; k++ {
-		go p.tasks[ph][k]()
-	}
-	self(0)
-	p.wg.Wait()
+	p.team.parallel(ph)
 }
 
 // Forward computes dst[j*(nx/2+1)+i] = Σ_y Σ_x src[y*nx+x]·exp(−2πi(i·x/nx + j·y/ny)) (unnormalised).
@@ -148,15 +165,17 @@ func (p *Plan2D) Forward(dst []complex128, src []float64) {
 		panic(fmt.Sprintf("fft: Forward: len(dst) = %d, want ny·(nx/2+1) = %d", len(dst), p.ny*p.w))
 	}
 	p.fsrc, p.fdst = src, dst
-	p.parallel(0, p.forward1)
-	p.parallel(1, p.forward2)
+	p.parallel(0)
+	p.parallel(1)
+	p.parallel(2)
+	splitCol(dst, p.ny, p.h)
 	p.fsrc, p.fdst = nil, nil
 }
 
 // forward1 does the zonal real-to-complex transforms of worker k's rows, cy rows at a time: half-length
 // complex transforms of the rows read as complex pairs (the first stage reads the field directly), then
 // the post-processing into dst.
-func (p *Plan2D) forward1(k int) {
+func (p *core) forward1(k int) {
 	y0, y1 := p.span(k, p.ny)
 	b0, b1 := p.bufs[k][0], p.bufs[k][1]
 	xs := p.xf.stages
@@ -195,21 +214,26 @@ func (p *Plan2D) forward1(k int) {
 	}
 }
 
-// forward2 does the meridional transforms of worker k's columns of dst, in place, ci columns at a time.
-// Column 0 holds X[y][0] + i·X[y][h] (both real, packed by postT); the worker owning it splits its
-// transform into the columns i = 0 and i = h.
-func (p *Plan2D) forward2(k int) {
-	i0, i1 := p.span(k, p.h)
+// forward2 does the meridional transforms of worker k's columns of dst but for their last stage,
+// ci columns at a time, writing mid. Column 0 holds X[y][0] + i·X[y][h] (both real, packed by postT).
+func (p *core) forward2(k int) {
+	i0, i1 := p.spanCols(k)
 	b0, b1 := p.bufs[k][0], p.bufs[k][1]
+	ns := len(p.yb.stages)
 	n := i1 - i0
 	nc := (n + ci - 1) / ci
 	for c := 0; c < nc; c++ {
 		ia, ib := i0+c*n/nc, i0+(c+1)*n/nc
-		p.yb.run(p.fdst[ia:], p.fdst[ia:], b0, b1, p.w, p.w, ci, ib-ia, false)
+		p.yb.runN(ns-1, p.mid[ia:], p.fdst[ia:], b0, b1, p.w, p.ws, ci, ib-ia, false)
 	}
-	if i0 == 0 && i1 > 0 {
-		splitCol(p.fdst, p.ny, p.h)
-	}
+}
+
+// forward3 does worker k's share of the last meridional stage, mid → dst, split by rows so that no two
+// workers write the same cache line of dst (but at the ends of their row blocks).
+func (p *core) forward3(k int) {
+	last := len(p.yb.stages) - 1
+	j0, j1 := p.span(k, p.yb.stages[last].r)
+	p.yb.doRange(last, p.fdst, p.mid, p.ws, p.w, p.h, false, j0, j1)
 }
 
 // Inverse computes dst[y*nx+x] = (1/(nx·ny)) Σ_j Σ_i c[j][i]·exp(2πi(i·x/nx + j·y/ny)), the sum running
@@ -227,33 +251,33 @@ func (p *Plan2D) Inverse(dst []float64, src []complex128) {
 		panic(fmt.Sprintf("fft: Inverse: len(dst) = %d, want nx·ny = %d", len(dst), p.nx*p.ny))
 	}
 	p.isrc, p.idst = src, dst
-	p.parallel(2, p.inverse1)
-	p.parallel(3, p.inverse2)
+	p.parallel(3)
+	p.parallel(4)
 	p.isrc, p.idst = nil, nil
 }
 
 // inverse1 does the meridional inverse transforms of worker k's columns, src → mid, ci columns at a time.
 // The columns i = 0 and i = h are transformed together, as column 0 of mid holding the Hermitian part of
 // column 0 plus i times that of column h (packed by joinCol).
-func (p *Plan2D) inverse1(k int) {
-	i0, i1 := p.span(k, p.h)
+func (p *core) inverse1(k int) {
+	i0, i1 := p.spanCols(k)
 	b0, b1 := p.bufs[k][0], p.bufs[k][1]
 	n := i1 - i0
 	nc := (n + ci - 1) / ci
 	for c := 0; c < nc; c++ {
 		ia, ib := i0+c*n/nc, i0+(c+1)*n/nc
 		if ia == 0 {
-			joinCol(p.mid, p.isrc, p.ny, p.h, ib)
-			p.yb.run(p.mid, p.mid, b0, b1, p.w, p.w, ci, ib, true)
+			joinCol(p.mid, p.isrc, p.ny, p.h, ib, p.ws)
+			p.yb.run(p.mid, p.mid, b0, b1, p.ws, p.ws, ci, ib, true)
 			continue
 		}
-		p.yb.run(p.mid[ia:], p.isrc[ia:], b0, b1, p.w, p.w, ci, ib-ia, true)
+		p.yb.runN(len(p.yb.stages), p.mid[ia:], p.isrc[ia:], b0, b1, p.w, p.ws, ci, ib-ia, true)
 	}
 }
 
 // inverse2 does the zonal complex-to-real transforms of worker k's rows, cy rows at a time:
 // pre-processing (transposed), half-length inverse transforms, the last stage writing into dst.
-func (p *Plan2D) inverse2(k int) {
+func (p *core) inverse2(k int) {
 	y0, y1 := p.span(k, p.ny)
 	b0, b1 := p.bufs[k][0], p.bufs[k][1]
 	xs := p.xi.stages
@@ -267,10 +291,10 @@ func (p *Plan2D) inverse2(k int) {
 		cur, nxt := b0, b1
 		i := 0
 		if fused {
-			preFirst4(cur, p.mid, p.h, cy, l, ya, p.ipre, p.ihalf, xs[0].bw)
+			preFirst4(cur, p.mid, p.h, p.ws, cy, l, ya, p.ipre, p.ihalf, xs[0].bw)
 			i = 1
 		} else {
-			preT(cur, p.mid, p.ipre, p.ihalf, p.h, cy, ya, yb)
+			preT(cur, p.mid, p.ipre, p.ihalf, p.h, p.ws, cy, ya, yb)
 		}
 		for ; i < last; i++ {
 			p.xi.do(i, nxt, cur, cy, cy, l, true)

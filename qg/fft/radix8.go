@@ -9,10 +9,10 @@ import "math"
 
 const r2 = math.Sqrt2 / 2 // cos(π/4)
 
-func fwd8(y, x []complex128, m, R, bi, bo, l int, tw []complex128) {
+func fwd8(y, x []complex128, m, R, bi, bo, l, j0, j1 int, tw []complex128) {
 	m0 := m / 8
 	si, so := bi*R*m0, bo*R
-	for j := 0; j < R; j++ {
+	for j := j0; j < j1; j++ {
 		i := bi * j
 		o := bo * j
 		x0 := x[i : i+l]
@@ -58,7 +58,7 @@ func fwd8(y, x []complex128, m, R, bi, bo, l int, tw []complex128) {
 	}
 	for p := 1; p < m0; p++ {
 		w1, w2, w3, w4, w5, w6, w7 := tw[7*p], tw[7*p+1], tw[7*p+2], tw[7*p+3], tw[7*p+4], tw[7*p+5], tw[7*p+6]
-		for j := 0; j < R; j++ {
+		for j := j0; j < j1; j++ {
 			i := bi * (j + R*p)
 			o := bo * (j + R*8*p)
 			x0 := x[i : i+l]
@@ -105,10 +105,10 @@ func fwd8(y, x []complex128, m, R, bi, bo, l int, tw []complex128) {
 	}
 }
 
-func bwd8(y, x []complex128, m, R, bi, bo, l int, tw []complex128) {
+func bwd8(y, x []complex128, m, R, bi, bo, l, j0, j1 int, tw []complex128) {
 	m0 := m / 8
 	si, so := bi*R*m0, bo*R
-	for j := 0; j < R; j++ {
+	for j := j0; j < j1; j++ {
 		i := bi * j
 		o := bo * j
 		x0 := x[i : i+l]
@@ -154,7 +154,7 @@ func bwd8(y, x []complex128, m, R, bi, bo, l int, tw []complex128) {
 	}
 	for p := 1; p < m0; p++ {
 		w1, w2, w3, w4, w5, w6, w7 := tw[7*p], tw[7*p+1], tw[7*p+2], tw[7*p+3], tw[7*p+4], tw[7*p+5], tw[7*p+6]
-		for j := 0; j < R; j++ {
+		for j := j0; j < j1; j++ {
 			i := bi * (j + R*p)
 			o := bo * (j + R*8*p)
 			x0 := x[i : i+l]

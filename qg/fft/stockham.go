@@ -122,18 +122,24 @@ func newBatchRadices(n int, rs []int) batch {
 
 // do runs stage i on l sequences, reading x with row stride bi and writing y with row stride bo.
 func (b *batch) do(i int, y, x []complex128, bi, bo, l int, inverse bool) {
+	b.doRange(i, y, x, bi, bo, l, inverse, 0, b.stages[i].r)
+}
+
+// doRange runs the part j0 <= j < j1 of stage i (see the index maps above); the parts with disjoint
+// j-ranges read and write disjoint elements.
+func (b *batch) doRange(i int, y, x []complex128, bi, bo, l int, inverse bool, j0, j1 int) {
 	st := &b.stages[i]
 	switch {
 	case st.radix == 2:
-		radix2(y, x, st.m, st.r, bi, bo, l)
+		radix2(y, x, st.m, st.r, bi, bo, l, j0, j1)
 	case st.radix == 8 && inverse:
-		bwd8(y, x, st.m, st.r, bi, bo, l, st.bw)
+		bwd8(y, x, st.m, st.r, bi, bo, l, j0, j1, st.bw)
 	case st.radix == 8:
-		fwd8(y, x, st.m, st.r, bi, bo, l, st.fw)
+		fwd8(y, x, st.m, st.r, bi, bo, l, j0, j1, st.fw)
 	case inverse:
-		bwd4(y, x, st.m, st.r, bi, bo, l, st.bw)
+		bwd4(y, x, st.m, st.r, bi, bo, l, j0, j1, st.bw)
 	default:
-		fwd4(y, x, st.m, st.r, bi, bo, l, st.fw)
+		fwd4(y, x, st.m, st.r, bi, bo, l, j0, j1, st.fw)
 	}
 }
 
@@ -155,6 +161,28 @@ func (b *batch) run(out, in, b0, b1 []complex128, bi, bo, ld, l int, inverse boo
 	b.do(ns-1, out, b0, ld, bo, l, inverse)
 }
 
+// runN runs stages 0..n−1 on l sequences: the first reads in (stride bi), the last writes out (stride bo),
+// the ones in between use the private buffers b0 and b1 (stride ld). out must not overlap in. With n = 0
+// it copies in to out.
+func (b *batch) runN(n int, out, in, b0, b1 []complex128, bi, bo, ld, l int, inverse bool) {
+	switch n {
+	case 0:
+		for t := 0; t < b.n; t++ {
+			copy(out[t*bo:t*bo+l], in[t*bi:t*bi+l])
+		}
+		return
+	case 1:
+		b.do(0, out, in, bi, bo, l, inverse)
+		return
+	}
+	b.do(0, b0, in, bi, ld, l, inverse)
+	for i := 1; i < n-1; i++ {
+		b.do(i, b1, b0, ld, ld, l, inverse)
+		b0, b1 = b1, b0
+	}
+	b.do(n-1, out, b0, ld, bo, l, inverse)
+}
+
 // gatherCols copies n rows of l columns from src (row stride si) to dst (row stride sd).
 func gatherCols(dst, src []complex128, si, sd, l, n int) {
 	for t := 0; t < n; t++ {
@@ -163,10 +191,10 @@ func gatherCols(dst, src []complex128, si, sd, l, n int) {
 }
 
 // radix2 is a radix-2 stage without twiddles, valid only as a last stage (sub-length 2).
-func radix2(y, x []complex128, m, R, bi, bo, l int) {
+func radix2(y, x []complex128, m, R, bi, bo, l, j0, j1 int) {
 	h := m / 2
 	for p := 0; p < h; p++ {
-		for j := 0; j < R; j++ {
+		for j := j0; j < j1; j++ {
 			i := bi * (j + R*p)
 			o := bo * (j + R*2*p)
 			a := x[i : i+l]
@@ -185,10 +213,10 @@ func radix2(y, x []complex128, m, R, bi, bo, l int) {
 	}
 }
 
-func fwd4(y, x []complex128, m, R, bi, bo, l int, tw []complex128) {
+func fwd4(y, x []complex128, m, R, bi, bo, l, j0, j1 int, tw []complex128) {
 	m0 := m / 4
 	si, so := bi*R*m0, bo*R // input and output distance between the four legs
-	for j := 0; j < R; j++ {
+	for j := j0; j < j1; j++ {
 		i, o := bi*j, bo*j
 		a := x[i : i+l]
 		b := x[i+si : i+si+l]
@@ -213,7 +241,7 @@ func fwd4(y, x []complex128, m, R, bi, bo, l int, tw []complex128) {
 	}
 	for p := 1; p < m0; p++ {
 		w1, w2, w3 := tw[3*p], tw[3*p+1], tw[3*p+2]
-		for j := 0; j < R; j++ {
+		for j := j0; j < j1; j++ {
 			i := bi * (j + R*p)
 			o := bo * (j + R*4*p)
 			a := x[i : i+l]
@@ -240,10 +268,10 @@ func fwd4(y, x []complex128, m, R, bi, bo, l int, tw []complex128) {
 	}
 }
 
-func bwd4(y, x []complex128, m, R, bi, bo, l int, tw []complex128) {
+func bwd4(y, x []complex128, m, R, bi, bo, l, j0, j1 int, tw []complex128) {
 	m0 := m / 4
 	si, so := bi*R*m0, bo*R
-	for j := 0; j < R; j++ {
+	for j := j0; j < j1; j++ {
 		i, o := bi*j, bo*j
 		a := x[i : i+l]
 		b := x[i+si : i+si+l]
@@ -268,7 +296,7 @@ func bwd4(y, x []complex128, m, R, bi, bo, l int, tw []complex128) {
 	}
 	for p := 1; p < m0; p++ {
 		w1, w2, w3 := tw[3*p], tw[3*p+1], tw[3*p+2]
-		for j := 0; j < R; j++ {
+		for j := j0; j < j1; j++ {
 			i := bi * (j + R*p)
 			o := bo * (j + R*4*p)
 			a := x[i : i+l]
