@@ -5,8 +5,10 @@ import (
 	"math"
 	"math/cmplx"
 	"math/rand/v2"
+	"runtime"
 	"strings"
 	"testing"
+	"time"
 
 	"gonum.org/v1/gonum/dsp/fourier"
 )
@@ -434,11 +436,35 @@ func TestBadLengthsPanic(t *testing.T) {
 
 func TestNoAllocations(t *testing.T) {
 	nx, ny := 64, 64
-	p := mustPlan(t, nx, ny, 1)
-	f := randomField(nx, ny, 16)
-	c := make([]complex128, ny*(nx/2+1))
-	if n := testing.AllocsPerRun(10, func() { p.Forward(c, f); p.Inverse(f, c) }); n != 0 {
-		t.Errorf("%v allocations per Forward+Inverse, want 0", n)
+	for _, workers := range []int{1, 2} {
+		p := mustPlan(t, nx, ny, workers)
+		f := randomField(nx, ny, 16)
+		c := make([]complex128, ny*(nx/2+1))
+		if n := testing.AllocsPerRun(10, func() { p.Forward(c, f); p.Inverse(f, c) }); n != 0 {
+			t.Errorf("workers=%d: %v allocations per Forward+Inverse, want 0", workers, n)
+		}
+	}
+}
+
+// TestHelpersStop: the helper goroutines of a plan end once the plan is unreachable.
+func TestHelpersStop(t *testing.T) {
+	base := runtime.NumGoroutine()
+	func() {
+		p := mustPlan(t, 16, 16, 4)
+		f := randomField(16, 16, 17)
+		c := make([]complex128, 16*9)
+		p.Forward(c, f)
+		if n := runtime.NumGoroutine(); n < base+3 {
+			t.Errorf("%d goroutines with a 4-worker plan, want at least %d", n, base+3)
+		}
+	}()
+	deadline := time.Now().Add(5 * time.Second)
+	for runtime.NumGoroutine() > base && time.Now().Before(deadline) {
+		runtime.GC()
+		time.Sleep(10 * time.Millisecond)
+	}
+	if n := runtime.NumGoroutine(); n > base {
+		t.Errorf("%d goroutines after the plan was dropped, want %d", n, base)
 	}
 }
 
