@@ -3,7 +3,7 @@
 //
 // Usage:
 //
-//	eddyblock run [-config file.toml] [-days N] [-workers N] [-out dir] [-quiet]
+//	eddyblock run [-config file.toml] [-days N] [-workers N] [-quiet] [-out dir]
 //	eddyblock config          print the built-in experiment as TOML
 //	eddyblock check file.toml validate a configuration
 //
@@ -13,12 +13,14 @@ package main
 
 import (
 	"context"
+	"encoding/json"
 	"errors"
 	"flag"
 	"fmt"
 	"io"
 	"os"
 	"os/signal"
+	"path/filepath"
 	"time"
 
 	"eddyblock/experiment"
@@ -32,7 +34,7 @@ func main() {
 }
 
 const usage = `usage:
-  eddyblock run [-config file.toml] [-days N] [-workers N] [-quiet]
+  eddyblock run [-config file.toml] [-days N] [-workers N] [-quiet] [-out dir]
   eddyblock config              print the built-in experiment as TOML
   eddyblock check file.toml     validate a configuration file`
 
@@ -69,6 +71,7 @@ func cmdRun(args []string, stdout, stderr io.Writer) error {
 	days := fs.Float64("days", 0, "length of the run in days (overrides run.days)")
 	workers := fs.Int("workers", 0, "goroutines inside a step (overrides model.workers)")
 	quiet := fs.Bool("quiet", false, "print only the final summary")
+	out := fs.String("out", "", "directory for summary.json and series.json (created if missing)")
 	if err := fs.Parse(args); err != nil {
 		return err
 	}
@@ -108,6 +111,41 @@ func cmdRun(args []string, stdout, stderr io.Writer) error {
 	}
 	fmt.Fprintln(stdout)
 	fmt.Fprintln(stdout, e.Summary())
+	if *out != "" {
+		if err := writeOutputs(*out, e); err != nil {
+			return err
+		}
+		fmt.Fprintf(stdout, "wrote %s\n", *out)
+	}
 	fmt.Fprintf(stdout, "done: %d steps in %.1f s (%.2f ms per step)\n", e.Model.Steps(), wall.Seconds(), wall.Seconds()*1e3/float64(e.Model.Steps()))
+	return nil
+}
+
+// writeOutputs writes the run's summary, time series and configuration as
+// JSON files in dir, each through a temporary file renamed into place, so
+// an existing output is replaced only by a complete one.
+func writeOutputs(dir string, e *experiment.Experiment) error {
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return err
+	}
+	for name, v := range map[string]any{
+		"summary.json": e.Summary(),
+		"series.json":  e.Diag.Series(),
+		"config.json":  e.Config,
+	} {
+		b, err := json.MarshalIndent(v, "", "  ")
+		if err != nil {
+			return fmt.Errorf("%s: %w", name, err)
+		}
+		path := filepath.Join(dir, name)
+		tmp := path + ".tmp"
+		if err := os.WriteFile(tmp, append(b, '\n'), 0o644); err != nil {
+			return err
+		}
+		if err := os.Rename(tmp, path); err != nil {
+			os.Remove(tmp)
+			return err
+		}
+	}
 	return nil
 }
