@@ -89,26 +89,56 @@ func NewPlan2D(nx, ny, workers int) (*Plan2D, error) {
 	}
 	plan := &Plan2D{core: p}
 	if workers > 1 {
-		plan.team = newTeam(workers, p.phase)
+		plan.team = newTeam(workers, p.task)
 		runtime.AddCleanup(plan, func(t *team) { t.shutdown() }, plan.team)
 	}
 	return plan, nil
 }
 
-// phase runs phase ph (0, 1, 2: Forward; 3, 4: Inverse) for worker k.
-func (p *core) phase(ph, k int) {
+// Phases of the transforms: each is a list of independent tasks (see team).
+const (
+	phFwdRows = iota // zonal transforms of a chunk of rows: field → dst
+	phFwdCols        // meridional transforms but the last stage, of a chunk of columns: dst → mid
+	phFwdLast        // last meridional stage for a block of rows: mid → dst
+	phInvCols        // meridional inverse transforms of a chunk of columns: src → mid
+	phInvRows        // zonal inverse transforms of a chunk of rows: mid → field
+)
+
+// task runs task c of phase ph as worker k.
+func (p *core) task(ph, c, k int) {
 	switch ph {
-	case 0:
-		p.forward1(k)
-	case 1:
-		p.forward2(k)
-	case 2:
-		p.forward3(k)
-	case 3:
-		p.inverse1(k)
-	case 4:
-		p.inverse2(k)
+	case phFwdRows:
+		p.forwardRows(c, k)
+	case phFwdCols:
+		p.forwardCols(c, k)
+	case phFwdLast:
+		p.forwardLast(c)
+	case phInvCols:
+		p.inverseCols(c, k)
+	case phInvRows:
+		p.inverseRows(c, k)
 	}
+}
+
+// ntasks returns the number of tasks of phase ph. The chunks do not depend on the number of workers.
+func (p *core) ntasks(ph int) int {
+	switch ph {
+	case phFwdRows, phInvRows:
+		return (p.ny + cy - 1) / cy
+	case phFwdCols, phInvCols:
+		return (p.h + ci - 1) / ci
+	default:
+		return min(p.yb.stages[len(p.yb.stages)-1].r, 8)
+	}
+}
+
+// part returns chunk c of n items cut into nc near-equal chunks, with the cuts at multiples of unit.
+func part(c, nc, n, unit int) (int, int) {
+	lo, hi := c*n/nc/unit*unit, (c+1)*n/nc/unit*unit
+	if c == nc-1 {
+		hi = n
+	}
+	return lo, hi
 }
 
 func reversed(rs []int) []int {
@@ -135,24 +165,16 @@ func (p *Plan2D) Ny() int { return p.ny }
 // Workers returns the number of goroutines a transform may use.
 func (p *Plan2D) Workers() int { return p.workers }
 
-// spanCols returns worker k's share [lo, hi) of the h columns, split at multiples of 4 columns.
-func (p *core) spanCols(k int) (int, int) {
-	u := (p.h + 3) / 4
-	return min(p.h, k*u/p.workers*4), min(p.h, (k+1)*u/p.workers*4)
-}
-
-// span returns worker k's share [lo, hi) of n items.
-func (p *core) span(k, n int) (int, int) {
-	return k * n / p.workers, (k + 1) * n / p.workers
-}
-
-// parallel runs phase ph on all workers and waits for them.
+// parallel runs the tasks of phase ph on all workers and waits for them.
 func (p *Plan2D) parallel(ph int) {
+	n := p.ntasks(ph)
 	if p.team == nil {
-		p.phase(ph, 0)
+		for c := 0; c < n; c++ {
+			p.task(ph, c, 0)
+		}
 		return
 	}
-	p.team.parallel(ph)
+	p.team.parallel(ph, n)
 }
 
 // Forward computes dst[j*(nx/2+1)+i] = Σ_y Σ_x src[y*nx+x]·exp(−2πi(i·x/nx + j·y/ny)) (unnormalised).
@@ -165,74 +187,61 @@ func (p *Plan2D) Forward(dst []complex128, src []float64) {
 		panic(fmt.Sprintf("fft: Forward: len(dst) = %d, want ny·(nx/2+1) = %d", len(dst), p.ny*p.w))
 	}
 	p.fsrc, p.fdst = src, dst
-	p.parallel(0)
-	p.parallel(1)
-	p.parallel(2)
+	p.parallel(phFwdRows)
+	p.parallel(phFwdCols)
+	p.parallel(phFwdLast)
 	splitCol(dst, p.ny, p.h)
 	p.fsrc, p.fdst = nil, nil
 }
 
-// forward1 does the zonal real-to-complex transforms of worker k's rows, cy rows at a time: half-length
-// complex transforms of the rows read as complex pairs (the first stage reads the field directly), then
-// the post-processing into dst.
-func (p *core) forward1(k int) {
-	y0, y1 := p.span(k, p.ny)
-	b0, b1 := p.bufs[k][0], p.bufs[k][1]
+// forwardRows does the zonal real-to-complex transforms of row chunk c as worker k: half-length complex
+// transforms of the rows read as complex pairs (the first stage reads the field directly), then the
+// post-processing into dst (fused with the last stage).
+func (p *core) forwardRows(c, k int) {
+	ya, yb := part(c, p.ntasks(phFwdRows), p.ny, 1)
+	l := yb - ya
+	cur, nxt := p.bufs[k][0], p.bufs[k][1]
 	xs := p.xf.stages
 	last := len(xs) - 1
 	fused := xs[last].radix == 4
-	n := y1 - y0
-	nc := (n + cy - 1) / cy
-	for c := 0; c < nc; c++ {
-		ya, yb := y0+c*n/nc, y0+(c+1)*n/nc
-		l := yb - ya
-		cur, nxt := b0, b1
-		i := 0
-		switch xs[0].radix {
-		case 4:
-			fwd4Real(cur, p.fsrc[ya*p.nx:yb*p.nx], p.nx, p.h, cy, l, xs[0].fw)
-			i = 1
-		case 8:
-			fwd8Real(cur, p.fsrc[ya*p.nx:yb*p.nx], p.nx, p.h, cy, l, xs[0].fw)
-			i = 1
-		default:
-			packT(cur, p.fsrc, p.nx, cy, ya, yb)
-		}
-		end := len(xs)
-		if fused {
-			end = last
-		}
-		for ; i < end; i++ {
-			p.xf.do(i, nxt, cur, cy, cy, l, false)
-			cur, nxt = nxt, cur
-		}
-		if fused && i == last {
-			postLast4(p.fdst, cur, p.h, xs[last].r, cy, l, ya, p.fpost)
-		} else {
-			postT(p.fdst, cur, p.fpost, p.h, cy, ya, yb)
-		}
+	i := 0
+	switch xs[0].radix {
+	case 4:
+		fwd4Real(cur, p.fsrc[ya*p.nx:yb*p.nx], p.nx, p.h, cy, l, xs[0].fw)
+		i = 1
+	case 8:
+		fwd8Real(cur, p.fsrc[ya*p.nx:yb*p.nx], p.nx, p.h, cy, l, xs[0].fw)
+		i = 1
+	default:
+		packT(cur, p.fsrc, p.nx, cy, ya, yb)
+	}
+	end := len(xs)
+	if fused {
+		end = last
+	}
+	for ; i < end; i++ {
+		p.xf.do(i, nxt, cur, cy, cy, l, false)
+		cur, nxt = nxt, cur
+	}
+	if fused && i == last {
+		postLast4(p.fdst, cur, p.h, xs[last].r, cy, l, ya, p.fpost)
+	} else {
+		postT(p.fdst, cur, p.fpost, p.h, cy, ya, yb)
 	}
 }
 
-// forward2 does the meridional transforms of worker k's columns of dst but for their last stage,
-// ci columns at a time, writing mid. Column 0 holds X[y][0] + i·X[y][h] (both real, packed by postT).
-func (p *core) forward2(k int) {
-	i0, i1 := p.spanCols(k)
-	b0, b1 := p.bufs[k][0], p.bufs[k][1]
-	ns := len(p.yb.stages)
-	n := i1 - i0
-	nc := (n + ci - 1) / ci
-	for c := 0; c < nc; c++ {
-		ia, ib := i0+c*n/nc, i0+(c+1)*n/nc
-		p.yb.runN(ns-1, p.mid[ia:], p.fdst[ia:], b0, b1, p.w, p.ws, ci, ib-ia, false)
-	}
+// forwardCols does the meridional transforms, but for their last stage, of column chunk c of dst as
+// worker k, writing mid. Column 0 holds X[y][0] + i·X[y][h] (both real, packed by the post-processing).
+func (p *core) forwardCols(c, k int) {
+	ia, ib := part(c, p.ntasks(phFwdCols), p.h, 4)
+	p.yb.runN(len(p.yb.stages)-1, p.mid[ia:], p.fdst[ia:], p.bufs[k][0], p.bufs[k][1], p.w, p.ws, ci, ib-ia, false)
 }
 
-// forward3 does worker k's share of the last meridional stage, mid → dst, split by rows so that no two
-// workers write the same cache line of dst (but at the ends of their row blocks).
-func (p *core) forward3(k int) {
+// forwardLast does block c of the last meridional stage, mid → dst, split by rows so that no two tasks
+// write the same cache line of dst (but at the ends of their row blocks).
+func (p *core) forwardLast(c int) {
 	last := len(p.yb.stages) - 1
-	j0, j1 := p.span(k, p.yb.stages[last].r)
+	j0, j1 := part(c, p.ntasks(phFwdLast), p.yb.stages[last].r, 1)
 	p.yb.doRange(last, p.fdst, p.mid, p.ws, p.w, p.h, false, j0, j1)
 }
 
@@ -251,59 +260,47 @@ func (p *Plan2D) Inverse(dst []float64, src []complex128) {
 		panic(fmt.Sprintf("fft: Inverse: len(dst) = %d, want nx·ny = %d", len(dst), p.nx*p.ny))
 	}
 	p.isrc, p.idst = src, dst
-	p.parallel(3)
-	p.parallel(4)
+	p.parallel(phInvCols)
+	p.parallel(phInvRows)
 	p.isrc, p.idst = nil, nil
 }
 
-// inverse1 does the meridional inverse transforms of worker k's columns, src → mid, ci columns at a time.
-// The columns i = 0 and i = h are transformed together, as column 0 of mid holding the Hermitian part of
+// inverseCols does the meridional inverse transforms of column chunk c as worker k, src → mid. The
+// columns i = 0 and i = h are transformed together, as column 0 of mid holding the Hermitian part of
 // column 0 plus i times that of column h (packed by joinCol).
-func (p *core) inverse1(k int) {
-	i0, i1 := p.spanCols(k)
+func (p *core) inverseCols(c, k int) {
+	ia, ib := part(c, p.ntasks(phInvCols), p.h, 4)
 	b0, b1 := p.bufs[k][0], p.bufs[k][1]
-	n := i1 - i0
-	nc := (n + ci - 1) / ci
-	for c := 0; c < nc; c++ {
-		ia, ib := i0+c*n/nc, i0+(c+1)*n/nc
-		if ia == 0 {
-			joinCol(p.mid, p.isrc, p.ny, p.h, ib, p.ws)
-			p.yb.run(p.mid, p.mid, b0, b1, p.ws, p.ws, ci, ib, true)
-			continue
-		}
-		p.yb.runN(len(p.yb.stages), p.mid[ia:], p.isrc[ia:], b0, b1, p.w, p.ws, ci, ib-ia, true)
+	if ia == 0 {
+		joinCol(p.mid, p.isrc, p.ny, p.h, ib, p.ws)
+		p.yb.run(p.mid, p.mid, b0, b1, p.ws, p.ws, ci, ib, true)
+		return
 	}
+	p.yb.runN(len(p.yb.stages), p.mid[ia:], p.isrc[ia:], b0, b1, p.w, p.ws, ci, ib-ia, true)
 }
 
-// inverse2 does the zonal complex-to-real transforms of worker k's rows, cy rows at a time:
-// pre-processing (transposed), half-length inverse transforms, the last stage writing into dst.
-func (p *core) inverse2(k int) {
-	y0, y1 := p.span(k, p.ny)
-	b0, b1 := p.bufs[k][0], p.bufs[k][1]
+// inverseRows does the zonal complex-to-real transforms of row chunk c as worker k: pre-processing
+// (fused with the first stage), half-length inverse transforms, the last stage writing the field.
+func (p *core) inverseRows(c, k int) {
+	ya, yb := part(c, p.ntasks(phInvRows), p.ny, 1)
+	l := yb - ya
+	cur, nxt := p.bufs[k][0], p.bufs[k][1]
 	xs := p.xi.stages
 	last := len(xs) - 1
-	fused := xs[0].radix == 4 && last > 0
-	n := y1 - y0
-	nc := (n + cy - 1) / cy
-	for c := 0; c < nc; c++ {
-		ya, yb := y0+c*n/nc, y0+(c+1)*n/nc
-		l := yb - ya
-		cur, nxt := b0, b1
-		i := 0
-		if fused {
-			preFirst4(cur, p.mid, p.h, p.ws, cy, l, ya, p.ipre, p.ihalf, xs[0].bw)
-			i = 1
-		} else {
-			preT(cur, p.mid, p.ipre, p.ihalf, p.h, p.ws, cy, ya, yb)
-		}
-		for ; i < last; i++ {
-			p.xi.do(i, nxt, cur, cy, cy, l, true)
-			cur, nxt = nxt, cur
-		}
-		if xs[last].radix == 8 {
-			bwdLast8Real(p.idst[ya*p.nx:yb*p.nx], cur, p.nx, xs[last].r, cy, l)
-		} else {
-			bwdLastReal(p.idst[ya*p.nx:yb*p.nx], cur, p.nx, xs[last].radix, xs[last].r, cy, l)
-		}
+	i := 0
+	if xs[0].radix == 4 && last > 0 {
+		preFirst4(cur, p.mid, p.h, p.ws, cy, l, ya, p.ipre, p.ihalf, xs[0].bw)
+		i = 1
+	} else {
+		preT(cur, p.mid, p.ipre, p.ihalf, p.h, p.ws, cy, ya, yb)
+	}
+	for ; i < last; i++ {
+		p.xi.do(i, nxt, cur, cy, cy, l, true)
+		cur, nxt = nxt, cur
+	}
+	if xs[last].radix == 8 {
+		bwdLast8Real(p.idst[ya*p.nx:yb*p.nx], cur, p.nx, xs[last].r, cy, l)
+	} else {
+		bwdLastReal(p.idst[ya*p.nx:yb*p.nx], cur, p.nx, xs[last].radix, xs[last].r, cy, l)
 	}
 }

@@ -9,17 +9,22 @@ import (
 // spinFor is how long an idle helper goroutine keeps polling for the next phase before it parks.
 // Waking a parked thread costs tens of microseconds on a virtual machine, as much as a whole phase of
 // a 128² transform, and a model step calls the transform back to back, so the helpers poll in between
-// (yielding with runtime.Gosched, so other goroutines still run).
+// (yielding now and then with runtime.Gosched, so other goroutines still run).
 const spinFor = time.Millisecond
 
-// team runs the phases of a transform on workers−1 persistent helper goroutines plus the caller.
+// team runs the phases of a transform on workers−1 persistent helper goroutines plus the caller. A
+// phase is a list of independent tasks (chunks of rows or columns) that the workers take in turn from a
+// shared counter, so a helper that the operating system does not schedule in time leaves its tasks to
+// the others; which worker computes a task does not change its result.
+//
 // The helpers hold no reference to the Plan2D, only to its core, so a cleanup attached to the plan
 // stops them when the plan becomes unreachable.
 type team struct {
-	run     func(phase, k int) // phase body for worker k
-	phase   atomic.Int32
-	gen     atomic.Uint64 // incremented for each phase
-	pending atomic.Int64  // helpers still working on the current phase
+	run     func(phase, task, k int) // body of a task, run by worker k with its private buffers
+	desc    atomic.Uint64            // seq<<32 | phase<<16 | number of tasks, of the current phase
+	ticket  atomic.Uint64            // seq<<32 | next task to take
+	done    atomic.Int64             // tasks of the current phase finished
+	seq     uint64                   // sequence number of the last phase (caller only)
 	stop    atomic.Bool
 	helpers []helper
 }
@@ -29,7 +34,7 @@ type helper struct {
 	wake   chan struct{}
 }
 
-func newTeam(workers int, run func(phase, k int)) *team {
+func newTeam(workers int, run func(phase, task, k int)) *team {
 	t := &team{run: run, helpers: make([]helper, workers-1)}
 	for i := range t.helpers {
 		t.helpers[i].wake = make(chan struct{}, 1)
@@ -38,20 +43,36 @@ func newTeam(workers int, run func(phase, k int)) *team {
 	return t
 }
 
-// parallel runs phase on every worker and returns when all are done.
-func (t *team) parallel(phase int) {
-	t.phase.Store(int32(phase))
-	t.pending.Store(int64(len(t.helpers)))
-	t.gen.Add(1)
+// parallel runs the n tasks of phase on the workers and returns when all are done.
+func (t *team) parallel(phase, n int) {
+	t.seq++
+	t.done.Store(0)
+	t.ticket.Store(t.seq << 32)
+	t.desc.Store(t.seq<<32 | uint64(phase)<<16 | uint64(n))
 	for i := range t.helpers {
 		h := &t.helpers[i]
 		if h.parked.CompareAndSwap(1, 0) {
 			h.wake <- struct{}{}
 		}
 	}
-	t.run(phase, 0)
-	for t.pending.Load() != 0 {
+	t.work(t.desc.Load(), 0)
+	for t.done.Load() != int64(n) {
 		runtime.Gosched()
+	}
+}
+
+// work takes and runs tasks of the phase described by d as worker k until none is left.
+func (t *team) work(d uint64, k int) {
+	seq, phase, n := d>>32, int(d>>16&0xffff), d&0xffff
+	for {
+		tk := t.ticket.Load()
+		if tk>>32 != seq || tk&0xffffffff >= n {
+			return
+		}
+		if t.ticket.CompareAndSwap(tk, tk+1) {
+			t.run(phase, int(tk&0xffffffff), k)
+			t.done.Add(1)
+		}
 	}
 }
 
@@ -69,10 +90,10 @@ func (t *team) shutdown() {
 // loop is helper k's goroutine.
 func (t *team) loop(k int) {
 	h := &t.helpers[k-1]
-	var seen uint64 // the generation at creation: phases may be posted before this goroutine starts
+	var seen uint64 // sequence number of the last phase worked on (0: none yet)
 	for {
 		start := time.Now()
-		for spins := 1; t.gen.Load() == seen; spins++ {
+		for spins := 1; t.desc.Load()>>32 == seen; spins++ {
 			if t.stop.Load() {
 				return
 			}
@@ -81,7 +102,7 @@ func (t *team) loop(k int) {
 				if t.stop.Load() {
 					return
 				}
-				if t.gen.Load() != seen && h.parked.CompareAndSwap(1, 0) {
+				if t.desc.Load()>>32 != seen && h.parked.CompareAndSwap(1, 0) {
 					break // a phase arrived before the caller saw us parked
 				}
 				<-h.wake // the caller (or shutdown) cleared parked and sends
@@ -94,8 +115,8 @@ func (t *team) loop(k int) {
 				runtime.Gosched()
 			}
 		}
-		seen = t.gen.Load()
-		t.run(int(t.phase.Load()), k)
-		t.pending.Add(-1)
+		d := t.desc.Load()
+		seen = d >> 32
+		t.work(d, k)
 	}
 }
