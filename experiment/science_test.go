@@ -7,11 +7,12 @@ import (
 
 	"eddyblock/qg"
 	"eddyblock/qg/diag"
+	"eddyblock/qg/fft"
 	"eddyblock/wavemaker"
 )
 
 // runExperiment runs c to its end and returns the summary.
-func runExperiment(t *testing.T, c Config) diag.Summary {
+func runExperiment(t *testing.T, c Config) (*Experiment, diag.Summary) {
 	t.Helper()
 	e, err := New(c)
 	if err != nil {
@@ -22,7 +23,35 @@ func runExperiment(t *testing.T, c Config) diag.Summary {
 	}
 	s := e.Summary()
 	t.Logf("%s:\n%s", c.Name, s)
-	return s
+	return e, s
+}
+
+// layerFit projects the gridded streamfunction tendency named name (layers
+// name1, name2 of the diagnostics' fields) on the block in the plain
+// mass-weighted ψ inner product.
+func layerFit(t *testing.T, e *Experiment, name string) diag.Projection {
+	t.Helper()
+	f := e.Diag.Fields()
+	m := e.Model
+	g := m.Grid()
+	plan, err := fft.NewPlan2D(g.Nx, g.Ny, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var x [2][]complex128
+	for n, suffix := range []string{"1", "2"} {
+		fl, ok := f.Get(name + suffix)
+		if !ok {
+			t.Fatalf("no field %s%s", name, suffix)
+		}
+		x[n] = make([]complex128, len(g.K2))
+		plan.Forward(x[n], fl.Data)
+		for p := range x[n] {
+			x[n][p] *= complex(g.Keep[p], 0)
+		}
+	}
+	pb, _ := m.BlockStreamfunction()
+	return diag.Fit(g, m.Physics(), diag.LayerNorm, x, pb)
 }
 
 // TestDefaultExperiment runs the built-in experiment to its end and checks
@@ -32,7 +61,7 @@ func TestDefaultExperiment(t *testing.T) {
 		t.Skip("runs the full default experiment (about a minute)")
 	}
 	t.Parallel()
-	s := runExperiment(t, Default())
+	e, s := runExperiment(t, Default())
 
 	// Energy budget of the model (DESIGN §8): every term is booked, so the
 	// change of energy over the averaging window equals the time integral
@@ -74,6 +103,11 @@ func TestDefaultExperiment(t *testing.T) {
 	if m := s.Index.Mean; !(m > 1) {
 		t.Errorf("mean block index %.3f, want > 1 (the eddies strengthen the forced block)", m)
 	}
+	lp := layerFit(t, e, "psit_vort")
+	t.Logf("vorticity-flux tendency in the ψ inner product: %+.4f day⁻¹, correlation %+.3f", lp.Rate, lp.Correlation)
+	if !(lp.Rate > 0 && lp.Correlation > 0) {
+		t.Errorf("in the ψ inner product the vorticity-flux tendency projects %+.4f day⁻¹ (correlation %+.3f), want > 0", lp.Rate, lp.Correlation)
+	}
 }
 
 // TestStormTrackOnAxisErodes is the control of TestDefaultExperiment: the
@@ -91,7 +125,7 @@ func TestStormTrackOnAxisErodes(t *testing.T) {
 	c.Name = "storm-track-on-axis"
 	c.Wavemaker.Mask = wavemaker.MaskConfig{Kind: wavemaker.Patch, X: 5e6, Y: 5e6, WidthX: 1e6, WidthY: 7e5}
 	c.Run.Days, c.Run.SpinUpDays = 60, 20
-	s := runExperiment(t, c)
+	_, s := runExperiment(t, c)
 	if r := s.EddyVorticity.Rate; !(r < 0) {
 		t.Errorf("vorticity-flux projection %+.4f day⁻¹, want < 0 (erosion)", r)
 	}
