@@ -29,11 +29,10 @@ func prePair(xk, xm, hw complex128, half float64) (complex128, complex128) {
 }
 
 // postLast4 runs the last forward stage (radix 4, sub-length 4, R = h/4) on the chunk buffer x (row
-// stride bi) of l rows and writes the post-processed spectra of rows ya.. into dst (row length h+1),
+// stride bi) of l rows and writes the post-processed spectra of rows ya.. into dst (row stride w >= h),
 // column 0 holding X[0] + i·X[h] as in postT. (postPair and last4 are written out by hand in the loop:
 // the compiler does not inline them.)
-func postLast4(dst, x []complex128, h, R, bi, l, ya int, hw []complex128) {
-	w := h + 1
+func postLast4(dst, x []complex128, h, w, R, bi, l, ya int, hw []complex128) {
 	hw = hw[:h/2+1]
 	for q := 0; q < l; q++ {
 		row := dst[(ya+q)*w : (ya+q)*w+w]

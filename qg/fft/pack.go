@@ -48,12 +48,11 @@ func scatter(dst, src []complex128, w, ld, ia, ib int) {
 }
 
 // postT turns the half-length transforms Z[k] (chunk layout src[k*ld+(y−ya)], k < h) of the packed rows
-// ya..yb-1 into their real-to-complex spectra X[k], k = 0..h, stored in dst[y*(h+1)+k]:
+// ya..yb-1 into their real-to-complex spectra X[k], k = 0..h, stored in dst[y*w+k] (w >= h):
 // X[k] = E + W^k·O, X[h−k] = conj(E − W^k·O), E = (Z[k] + conj Z[h−k])/2, O = (Z[k] − conj Z[h−k])/(2i),
 // with W = exp(−2πi/nx) and Z[h] = Z[0] (standard real-FFT post-processing). hw[k] = W^k/2.
-// X[0] and X[h] are real; they are stored packed as dst[y*(h+1)] = X[0] + i·X[h] (see splitCol).
-func postT(dst, src []complex128, hw []complex128, h, ld, ya, yb int) {
-	w := h + 1
+// X[0] and X[h] are real; they are stored packed as dst[y*w] = X[0] + i·X[h] (see splitCol).
+func postT(dst, src []complex128, hw []complex128, h, w, ld, ya, yb int) {
 	hw = hw[:h/2+1]
 	for y := ya; y < yb; y++ {
 		q := y - ya

@@ -11,6 +11,10 @@ import (
 const (
 	cy = 16
 	ci = 16
+	// Row strides of the chunk buffers: one cache line more than the chunk, so that the legs of a
+	// butterfly, a power of two of rows apart, do not fall into the same cache set.
+	ldy = cy + 4
+	ldc = ci + 4
 )
 
 // Plan2D transforms an ny×nx real field stored row-major (x fastest, index y*nx+x) to and from
@@ -43,6 +47,7 @@ type core struct {
 	// meridional result, or the forward's before its last meridional stage. ws is h rounded up to whole
 	// cache lines, so column ranges split at multiples of 4 share no cache line between workers.
 	mid  []complex128
+	tmp  []complex128 // ny·ws: the forward's meridional partial results
 	ws   int
 	bufs [][2][]complex128 // per-worker ping-pong buffers
 
@@ -73,9 +78,10 @@ func NewPlan2D(nx, ny, workers int) (*Plan2D, error) {
 		xi: newBatchRadices(h, reversed(radicesLast4(h))),
 		yb: newBatch(ny, false),
 	}
-	p.ws = (h + 3) / 4 * 4
+	p.ws = (h+3)/4*4 + 4 // whole cache lines, and not a power of two (cache set conflicts)
 	p.mid = make([]complex128, ny*p.ws)
-	size := max(h*cy, ny*ci)
+	p.tmp = make([]complex128, ny*p.ws)
+	size := max(h*ldy, ny*ldc)
 	p.bufs = make([][2][]complex128, workers)
 	for k := range p.bufs {
 		p.bufs[k] = [2][]complex128{make([]complex128, size), make([]complex128, size)}
@@ -97,9 +103,9 @@ func NewPlan2D(nx, ny, workers int) (*Plan2D, error) {
 
 // Phases of the transforms: each is a list of independent tasks (see team).
 const (
-	phFwdRows = iota // zonal transforms of a chunk of rows: field → dst
-	phFwdCols        // meridional transforms but the last stage, of a chunk of columns: dst → mid
-	phFwdLast        // last meridional stage for a block of rows: mid → dst
+	phFwdRows = iota // zonal transforms of a chunk of rows: field → mid
+	phFwdCols        // meridional transforms but the last stage, of a chunk of columns: mid → tmp
+	phFwdLast        // last meridional stage for a block of rows: tmp → dst
 	phInvCols        // meridional inverse transforms of a chunk of columns: src → mid
 	phInvRows        // zonal inverse transforms of a chunk of rows: mid → field
 )
@@ -196,7 +202,7 @@ func (p *Plan2D) Forward(dst []complex128, src []float64) {
 
 // forwardRows does the zonal real-to-complex transforms of row chunk c as worker k: half-length complex
 // transforms of the rows read as complex pairs (the first stage reads the field directly), then the
-// post-processing into dst (fused with the last stage).
+// post-processing into mid (fused with the last stage).
 func (p *core) forwardRows(c, k int) {
 	ya, yb := part(c, p.ntasks(phFwdRows), p.ny, 1)
 	l := yb - ya
@@ -207,42 +213,42 @@ func (p *core) forwardRows(c, k int) {
 	i := 0
 	switch xs[0].radix {
 	case 4:
-		fwd4Real(cur, p.fsrc[ya*p.nx:yb*p.nx], p.nx, p.h, cy, l, xs[0].fw)
+		fwd4Real(cur, p.fsrc[ya*p.nx:yb*p.nx], p.nx, p.h, ldy, l, xs[0].fw)
 		i = 1
 	case 8:
-		fwd8Real(cur, p.fsrc[ya*p.nx:yb*p.nx], p.nx, p.h, cy, l, xs[0].fw)
+		fwd8Real(cur, p.fsrc[ya*p.nx:yb*p.nx], p.nx, p.h, ldy, l, xs[0].fw)
 		i = 1
 	default:
-		packT(cur, p.fsrc, p.nx, cy, ya, yb)
+		packT(cur, p.fsrc, p.nx, ldy, ya, yb)
 	}
 	end := len(xs)
 	if fused {
 		end = last
 	}
 	for ; i < end; i++ {
-		p.xf.do(i, nxt, cur, cy, cy, l, false)
+		p.xf.do(i, nxt, cur, ldy, ldy, l, false)
 		cur, nxt = nxt, cur
 	}
 	if fused && i == last {
-		postLast4(p.fdst, cur, p.h, xs[last].r, cy, l, ya, p.fpost)
+		postLast4(p.mid, cur, p.h, p.ws, xs[last].r, ldy, l, ya, p.fpost)
 	} else {
-		postT(p.fdst, cur, p.fpost, p.h, cy, ya, yb)
+		postT(p.mid, cur, p.fpost, p.h, p.ws, ldy, ya, yb)
 	}
 }
 
-// forwardCols does the meridional transforms, but for their last stage, of column chunk c of dst as
-// worker k, writing mid. Column 0 holds X[y][0] + i·X[y][h] (both real, packed by the post-processing).
+// forwardCols does the meridional transforms, but for their last stage, of column chunk c of mid as
+// worker k, writing tmp. Column 0 holds X[y][0] + i·X[y][h] (both real, packed by the post-processing).
 func (p *core) forwardCols(c, k int) {
 	ia, ib := part(c, p.ntasks(phFwdCols), p.h, 4)
-	p.yb.runN(len(p.yb.stages)-1, p.mid[ia:], p.fdst[ia:], p.bufs[k][0], p.bufs[k][1], p.w, p.ws, ci, ib-ia, false)
+	p.yb.runN(len(p.yb.stages)-1, p.tmp[ia:], p.mid[ia:], p.bufs[k][0], p.bufs[k][1], p.ws, p.ws, ldc, ib-ia, false)
 }
 
-// forwardLast does block c of the last meridional stage, mid → dst, split by rows so that no two tasks
+// forwardLast does block c of the last meridional stage, tmp → dst, split by rows so that no two tasks
 // write the same cache line of dst (but at the ends of their row blocks).
 func (p *core) forwardLast(c int) {
 	last := len(p.yb.stages) - 1
 	j0, j1 := part(c, p.ntasks(phFwdLast), p.yb.stages[last].r, 1)
-	p.yb.doRange(last, p.fdst, p.mid, p.ws, p.w, p.h, false, j0, j1)
+	p.yb.doRange(last, p.fdst, p.tmp, p.ws, p.w, p.h, false, j0, j1)
 }
 
 // Inverse computes dst[y*nx+x] = (1/(nx·ny)) Σ_j Σ_i c[j][i]·exp(2πi(i·x/nx + j·y/ny)), the sum running
@@ -273,10 +279,10 @@ func (p *core) inverseCols(c, k int) {
 	b0, b1 := p.bufs[k][0], p.bufs[k][1]
 	if ia == 0 {
 		joinCol(p.mid, p.isrc, p.ny, p.h, ib, p.ws)
-		p.yb.run(p.mid, p.mid, b0, b1, p.ws, p.ws, ci, ib, true)
+		p.yb.run(p.mid, p.mid, b0, b1, p.ws, p.ws, ldc, ib, true)
 		return
 	}
-	p.yb.runN(len(p.yb.stages), p.mid[ia:], p.isrc[ia:], b0, b1, p.w, p.ws, ci, ib-ia, true)
+	p.yb.runN(len(p.yb.stages), p.mid[ia:], p.isrc[ia:], b0, b1, p.w, p.ws, ldc, ib-ia, true)
 }
 
 // inverseRows does the zonal complex-to-real transforms of row chunk c as worker k: pre-processing
@@ -289,18 +295,18 @@ func (p *core) inverseRows(c, k int) {
 	last := len(xs) - 1
 	i := 0
 	if xs[0].radix == 4 && last > 0 {
-		preFirst4(cur, p.mid, p.h, p.ws, cy, l, ya, p.ipre, p.ihalf, xs[0].bw)
+		preFirst4(cur, p.mid, p.h, p.ws, ldy, l, ya, p.ipre, p.ihalf, xs[0].bw)
 		i = 1
 	} else {
-		preT(cur, p.mid, p.ipre, p.ihalf, p.h, p.ws, cy, ya, yb)
+		preT(cur, p.mid, p.ipre, p.ihalf, p.h, p.ws, ldy, ya, yb)
 	}
 	for ; i < last; i++ {
-		p.xi.do(i, nxt, cur, cy, cy, l, true)
+		p.xi.do(i, nxt, cur, ldy, ldy, l, true)
 		cur, nxt = nxt, cur
 	}
 	if xs[last].radix == 8 {
-		bwdLast8Real(p.idst[ya*p.nx:yb*p.nx], cur, p.nx, xs[last].r, cy, l)
+		bwdLast8Real(p.idst[ya*p.nx:yb*p.nx], cur, p.nx, xs[last].r, ldy, l)
 	} else {
-		bwdLastReal(p.idst[ya*p.nx:yb*p.nx], cur, p.nx, xs[last].radix, xs[last].r, cy, l)
+		bwdLastReal(p.idst[ya*p.nx:yb*p.nx], cur, p.nx, xs[last].radix, xs[last].r, ldy, l)
 	}
 }
