@@ -1,3 +1,5 @@
+//go:build !fftw || !cgo
+
 package fft
 
 import (
@@ -61,14 +63,8 @@ type core struct {
 // NewPlan2D makes a plan for nx, ny powers of two, each >= 4. workers >= 1 is the number of goroutines a
 // transform may use; results are bit-identical for any number of workers.
 func NewPlan2D(nx, ny, workers int) (*Plan2D, error) {
-	if err := checkSize("nx", nx); err != nil {
+	if err := checkArgs(nx, ny, workers); err != nil {
 		return nil, err
-	}
-	if err := checkSize("ny", ny); err != nil {
-		return nil, err
-	}
-	if workers < 1 {
-		return nil, fmt.Errorf("fft: workers = %d, want >= 1", workers)
 	}
 	h := nx / 2
 	w := h + 1
@@ -153,13 +149,6 @@ func reversed(rs []int) []int {
 		out[len(rs)-1-i] = r
 	}
 	return out
-}
-
-func checkSize(name string, n int) error {
-	if n < 4 || n&(n-1) != 0 {
-		return fmt.Errorf("fft: %s = %d is not a power of two >= 4", name, n)
-	}
-	return nil
 }
 
 // Nx returns the number of grid points along x.

@@ -1,3 +1,5 @@
+//go:build !fftw || !cgo
+
 package fft
 
 import (
