@@ -8,11 +8,16 @@ import (
 	"time"
 )
 
-// spinFor is how long an idle helper goroutine keeps polling for the next phase before it parks.
-// Waking a parked thread costs tens of microseconds on a virtual machine, as much as a whole phase of
-// a 128² transform, and a model step calls the transform back to back, so the helpers poll in between
-// (yielding now and then with runtime.Gosched, so other goroutines still run).
-const spinFor = time.Millisecond
+// spinFor is how long an idle helper goroutine keeps polling for the next phase before it parks, and
+// waitFor how long the caller polls for the helpers to finish a phase before it blocks. Waking a
+// parked thread costs tens of microseconds on a virtual machine, as much as a whole phase of a 128²
+// transform, so both poll first (yielding now and then with runtime.Gosched, so other goroutines still
+// run); they block after a while so that, when the machine is oversubscribed, they do not keep a CPU
+// that the thread they wait for needs.
+const (
+	spinFor = 200 * time.Microsecond
+	waitFor = 50 * time.Microsecond
+)
 
 // team runs the phases of a transform on workers−1 persistent helper goroutines plus the caller. A
 // phase is a list of independent tasks (chunks of rows or columns) that the workers take in turn from a
@@ -26,7 +31,9 @@ type team struct {
 	desc    atomic.Uint64            // seq<<32 | phase<<16 | number of tasks, of the current phase
 	ticket  atomic.Uint64            // seq<<32 | next task to take
 	done    atomic.Int64             // tasks of the current phase finished
-	seq     uint64                   // sequence number of the last phase (caller only)
+	waiting atomic.Int32             // 1 while the caller is blocked (or about to block) on finished
+	finish  chan struct{}
+	seq     uint64 // sequence number of the last phase (caller only)
 	stop    atomic.Bool
 	helpers []helper
 }
@@ -37,7 +44,7 @@ type helper struct {
 }
 
 func newTeam(workers int, run func(phase, task, k int)) *team {
-	t := &team{run: run, helpers: make([]helper, workers-1)}
+	t := &team{run: run, helpers: make([]helper, workers-1), finish: make(chan struct{}, 1)}
 	for i := range t.helpers {
 		t.helpers[i].wake = make(chan struct{}, 1)
 		go t.loop(i + 1)
@@ -58,7 +65,16 @@ func (t *team) parallel(phase, n int) {
 		}
 	}
 	t.work(t.desc.Load(), 0)
-	for t.done.Load() != int64(n) {
+	start := time.Now()
+	for spins := 1; t.done.Load() != int64(n); spins++ {
+		if spins%64 == 0 && time.Since(start) > waitFor {
+			t.waiting.Store(1)
+			if t.done.Load() == int64(n) && t.waiting.CompareAndSwap(1, 0) {
+				return
+			}
+			<-t.finish // the worker finishing the last task cleared waiting and sends
+			return
+		}
 		runtime.Gosched()
 	}
 }
@@ -73,7 +89,9 @@ func (t *team) work(d uint64, k int) {
 		}
 		if t.ticket.CompareAndSwap(tk, tk+1) {
 			t.run(phase, int(tk&0xffffffff), k)
-			t.done.Add(1)
+			if uint64(t.done.Add(1)) == n && t.waiting.CompareAndSwap(1, 0) {
+				t.finish <- struct{}{}
+			}
 		}
 	}
 }
