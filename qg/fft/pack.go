@@ -17,36 +17,6 @@ func packT(dst []complex128, src []float64, nx, ld, ya, yb int) {
 	}
 }
 
-// unpackT is the inverse of packT.
-func unpackT(dst []float64, src []complex128, nx, ld, ya, yb int) {
-	h := nx / 2
-	for y := ya; y < yb; y++ {
-		row := dst[y*nx : y*nx+nx]
-		q := y - ya
-		for m := 0; m < h; m++ {
-			v := src[m*ld+q]
-			row[2*m] = real(v)
-			row[2*m+1] = imag(v)
-		}
-	}
-}
-
-// gather copies columns ia..ib-1 of the row-major array src (row length w) into dst[j*ld+(i−ia)].
-func gather(dst, src []complex128, w, ld, ia, ib int) {
-	n := len(src) / w
-	for j := 0; j < n; j++ {
-		copy(dst[j*ld:j*ld+ib-ia], src[j*w+ia:j*w+ib])
-	}
-}
-
-// scatter is the inverse of gather.
-func scatter(dst, src []complex128, w, ld, ia, ib int) {
-	n := len(dst) / w
-	for j := 0; j < n; j++ {
-		copy(dst[j*w+ia:j*w+ib], src[j*ld:j*ld+ib-ia])
-	}
-}
-
 // postT turns the half-length transforms Z[k] (chunk layout src[k*ld+(y−ya)], k < h) of the packed rows
 // ya..yb-1 into their real-to-complex spectra X[k], k = 0..h, stored in dst[y*w+k] (w >= h):
 // X[k] = E + W^k·O, X[h−k] = conj(E − W^k·O), E = (Z[k] + conj Z[h−k])/2, O = (Z[k] − conj Z[h−k])/(2i),
