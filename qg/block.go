@@ -87,7 +87,7 @@ func (m *Model) SetBlock(b Block) error {
 		bs.qp[n] = m.ToGrid(bs.q[n])
 		if b.Mode == Fixed {
 			bs.u[n], bs.v[n] = make([]float64, np), make([]float64, np)
-			m.velocity(bs.u[n], bs.v[n], bs.psi[n])
+			m.velocity(&m.lw[0], bs.u[n], bs.v[n], bs.psi[n], m.workers)
 		}
 	}
 	m.blk = bs
@@ -148,11 +148,12 @@ func (m *Model) BlockMode() BlockMode {
 	return m.blk.mode
 }
 
-// velocity sets gridded u = −∂yψ and v = ∂xψ from a spectral ψ.
-func (m *Model) velocity(u, v []float64, psi []complex128) {
+// velocity sets gridded u = −∂yψ and v = ∂xψ from a spectral ψ, with
+// the buffers and plan of lw and the given number of workers.
+func (m *Model) velocity(lw *layerWork, u, v []float64, psi []complex128, workers int) {
 	nk := m.g.Nkx
-	a, b := m.specA, m.specB
-	forRows(m.workers, m.g.Ny, func(lo, hi int) {
+	a, b := lw.a, lw.b
+	forRows(workers, m.g.Ny, func(lo, hi int) {
 		for j := lo; j < hi; j++ {
 			l := m.g.L[j]
 			for i := range nk {
@@ -162,6 +163,6 @@ func (m *Model) velocity(u, v []float64, psi []complex128) {
 			}
 		}
 	})
-	m.plan.Inverse(u, a)
-	m.plan.Inverse(v, b)
+	lw.plan.Inverse(u, a)
+	lw.plan.Inverse(v, b)
 }

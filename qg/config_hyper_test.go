@@ -15,7 +15,7 @@ func TestHyperviscosityTimeStepLimit(t *testing.T) {
 	c.Dt = 3600
 	c.U1, c.U2 = 0, 0
 	kmax := 2 * 3.141592653589793 * 21 / 8e6 // largest retained wavenumber on an axis, index 21 of 64
-	k2max := 2 * kmax * kmax                  // the corner of the retained square
+	k2max := 2 * kmax * kmax                 // the corner of the retained square
 	for _, tc := range []struct {
 		rate float64 // ν K_max⁴ dt
 		ok   bool

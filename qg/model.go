@@ -54,17 +54,14 @@ type Model struct {
 	prev        [2][]complex128 // state before the step, restored on failure
 
 	// tendency work
-	specA, specB []complex128
-	u, v, qp     [2][]float64
-	fu, fv       []float64
-	stage        bool // true while evaluating the first stage of a step
-	cfl          float64
-	cflAt        [3]float64 // layer, u, v at the CFL maximum
-	rowRates     [][NumTerms]float64
-	rowCFL       []float64
-	rowSum       []float64
-	rowCFLAt     [][3]float64
-	fbuf         [2][]complex128
+	lw     [2]layerWork
+	u, v   [2][]float64
+	qp     [2][]float64
+	stage  bool // true while evaluating the first stage of a step
+	cfl    float64
+	cflAt  [3]float64 // layer, u, v at the CFL maximum
+	rowSum []float64
+	fbuf   [2][]complex128
 
 	hyper      []float64 // ν K^(2p) per mode, hyperviscosity
 	filter     []float64 // exp(−λ(k) dt) per mode, cutoff filter
@@ -79,13 +76,12 @@ func NewModel(cfg Config) (*Model, error) {
 	if err := cfg.Validate(); err != nil {
 		return nil, err
 	}
-	plan, err := fft.NewPlan2D(cfg.Nx, cfg.Ny, cfg.Workers)
-	if err != nil {
-		return nil, fmt.Errorf("qg: transform: %w", err)
-	}
 	g := NewGrid(cfg.Nx, cfg.Ny, cfg.Lx, cfg.Ly)
 	ph := cfg.Physics()
-	m := &Model{cfg: cfg, ph: ph, g: g, inv: NewInverter(g, ph), plan: plan, workers: cfg.Workers}
+	m := &Model{cfg: cfg, ph: ph, g: g, inv: NewInverter(g, ph), workers: cfg.Workers}
+	if err := m.newLayerWork(); err != nil {
+		return nil, fmt.Errorf("qg: transform: %w", err)
+	}
 	ns, np := g.Ny*g.Nkx, g.Nx*g.Ny
 	spec := func() []complex128 { return make([]complex128, ns) }
 	pair := func() [2][]complex128 { return [2][]complex128{spec(), spec()} }
@@ -93,15 +89,10 @@ func NewModel(cfg Config) (*Model, error) {
 	for i := range m.hist {
 		m.hist[i] = pair()
 	}
-	m.specA, m.specB = spec(), spec()
 	for n := range 2 {
 		m.u[n], m.v[n], m.qp[n] = make([]float64, np), make([]float64, np), make([]float64, np)
 	}
-	m.fu, m.fv = make([]float64, np), make([]float64, np)
-	m.rowRates = make([][NumTerms]float64, g.Ny)
-	m.rowCFL = make([]float64, g.Ny)
 	m.rowSum = make([]float64, g.Ny)
-	m.rowCFLAt = make([][3]float64, g.Ny)
 	m.setDissipation()
 	m.setSponge()
 	if err := m.checkLinearStability(); err != nil {

@@ -36,10 +36,11 @@ func (m *Model) applySponge() float64 {
 	g := m.g
 	nx := g.Nx
 	target := m.blk != nil && (m.blk.mode == Forced || m.blk.mode == Relaxed)
-	for n := range 2 {
-		qp := m.qp[n]
-		m.plan.Inverse(qp, m.q[n])
-		forRows(m.workers, g.Ny, func(lo, hi int) {
+	inner := m.innerWorkers()
+	m.eachLayer(func(n int) {
+		qp, plan := m.qp[n], m.lw[n].plan
+		plan.Inverse(qp, m.q[n])
+		forRows(inner, g.Ny, func(lo, hi int) {
 			for y := lo; y < hi; y++ {
 				row := qp[y*nx : (y+1)*nx]
 				if target {
@@ -54,12 +55,12 @@ func (m *Model) applySponge() float64 {
 				}
 			}
 		})
-		m.plan.Forward(m.q[n], qp)
+		plan.Forward(m.q[n], qp)
 		for p, keep := range g.Keep {
 			if keep == 0 {
 				m.q[n][p] = 0
 			}
 		}
-	}
+	})
 	return m.energyOf(m.q) - e0
 }

@@ -11,25 +11,27 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 	g := m.g
 	nk, nx := g.Nkx, g.Nx
 	forRows(m.workers, g.Ny, func(lo, hi int) { m.inv.Invert(psi, q, lo*nk, hi*nk) })
-	for j := range m.rowRates {
-		m.rowRates[j] = [NumTerms]float64{}
-	}
 	fixed := m.blk != nil && m.blk.mode == Fixed
 	relaxed := m.blk != nil && m.blk.mode == Relaxed
 	var force [2][]complex128
 	if m.blk != nil && m.blk.force[0] != nil {
 		force = m.blk.force
 	}
-	for n := range 2 {
-		m.velocity(m.u[n], m.v[n], psi[n])
-		m.plan.Inverse(m.qp[n], q[n])
-		u, v, qg, fu, fv := m.u[n], m.v[n], m.qp[n], m.fu, m.fv
+	inner := m.innerWorkers()
+	first := m.stage
+	m.eachLayer(func(n int) {
+		lw := &m.lw[n]
+		for j := range lw.rowRates {
+			lw.rowRates[j] = [NumTerms]float64{}
+		}
+		m.velocity(lw, m.u[n], m.v[n], psi[n], inner)
+		lw.plan.Inverse(m.qp[n], q[n])
+		u, v, qg, fu, fv := m.u[n], m.v[n], m.qp[n], lw.fu, lw.fv
 		U := m.ph.U1
 		if n == 1 {
 			U = m.ph.U2
 		}
-		first := m.stage
-		forRows(m.workers, g.Ny, func(lo, hi int) {
+		forRows(inner, g.Ny, func(lo, hi int) {
 			for y := lo; y < hi; y++ {
 				var cmax, cu, cv float64
 				r := y * nx
@@ -66,15 +68,15 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 						}
 					}
 				}
-				if first && (n == 0 || cmax > m.rowCFL[y] || cmax != cmax) {
-					m.rowCFL[y] = cmax
-					m.rowCFLAt[y] = [3]float64{float64(n + 1), cu, cv}
+				if first {
+					lw.rowCFL[y] = cmax
+					lw.rowCFLAt[y] = [3]float64{float64(n + 1), cu, cv}
 				}
 			}
 		})
-		fuh, fvh := m.specA, m.specB
-		m.plan.Forward(fuh, fu)
-		m.plan.Forward(fvh, fv)
+		fuh, fvh := lw.a, lw.b
+		lw.plan.Forward(fuh, fu)
+		lw.plan.Forward(fvh, fv)
 
 		w := m.ph.W1
 		qy := m.ph.Q1y
@@ -91,7 +93,7 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 			fn = force[n]
 		}
 		hyper := m.hyper
-		forRows(m.workers, g.Ny, func(lo, hi int) {
+		forRows(inner, g.Ny, func(lo, hi int) {
 			for j := lo; j < hi; j++ {
 				l := g.L[j]
 				var rAdv, rShear, rDrag, rHyp, rRel, rG float64
@@ -131,20 +133,32 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 					}
 					dn[p] = tot
 				}
-				rr := &m.rowRates[j]
-				rr[TermAdvection] -= w * rAdv
-				rr[TermShear] -= w * rShear
-				rr[TermDrag] -= w * rDrag
-				rr[TermHyperviscosity] -= w * rHyp
-				rr[TermRelaxation] -= w * rRel
-				rr[TermBlockForcing] -= w * rG
+				rr := &lw.rowRates[j]
+				rr[TermAdvection] = -w * rAdv
+				rr[TermShear] = -w * rShear
+				rr[TermDrag] = -w * rDrag
+				rr[TermHyperviscosity] = -w * rHyp
+				rr[TermRelaxation] = -w * rRel
+				rr[TermBlockForcing] = -w * rG
 			}
 		})
-	}
+		if first {
+			lw.cfl, lw.cflAt = 0, [3]float64{}
+			for y, c := range lw.rowCFL {
+				if c > lw.cfl || c != c {
+					lw.cfl, lw.cflAt = c, lw.rowCFLAt[y]
+					if c != c {
+						break
+					}
+				}
+			}
+		}
+	})
 	*rates = [NumTerms]float64{}
-	for j := range m.rowRates {
-		for k, r := range m.rowRates[j] {
-			rates[k] += r
+	r0, r1 := m.lw[0].rowRates, m.lw[1].rowRates
+	for j := range r0 {
+		for k := range rates {
+			rates[k] += r0[j][k] + r1[j][k]
 		}
 	}
 	if len(m.forcings) > 0 {
@@ -170,15 +184,11 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 		}
 		rates[TermForcing] = r
 	}
-	if m.stage {
-		m.cfl, m.cflAt = 0, [3]float64{}
-		for y, c := range m.rowCFL {
-			if c > m.cfl || c != c {
-				m.cfl, m.cflAt = c, m.rowCFLAt[y]
-				if c != c {
-					break
-				}
-			}
+	if first {
+		a, b := &m.lw[0], &m.lw[1]
+		m.cfl, m.cflAt = a.cfl, a.cflAt
+		if b.cfl > a.cfl || (b.cfl != b.cfl && a.cfl == a.cfl) {
+			m.cfl, m.cflAt = b.cfl, b.cflAt
 		}
 		m.cfl *= m.cfg.Dt
 	}

@@ -88,10 +88,10 @@ func (m *Model) TermTendency(term Term, dst, q [2][]complex128, t float64) error
 						if target {
 							d -= blk.qp[n][i]
 						}
-						m.fu[i] = -m.spongeRate[x] * d
+						m.lw[0].fu[i] = -m.spongeRate[x] * d
 					}
 				}
-				m.plan.Forward(dst[n], m.fu)
+				m.plan.Forward(dst[n], m.lw[0].fu)
 				for p := range ns {
 					dst[n][p] = scale(g.Keep[p], dst[n][p])
 				}
@@ -135,28 +135,29 @@ func lnRate(f, dt float64) float64 { return math.Log(f) / dt }
 // and truncated, including the fixed block's background when there is one.
 func (m *Model) advection(dst []complex128, n int, psi, q []complex128) {
 	g := m.g
-	u, v, qg := m.u[n], m.v[n], m.qp[n]
-	m.velocity(u, v, psi)
+	lw := &m.lw[0]
+	u, v, qg, fu, fv := m.u[n], m.v[n], m.qp[n], lw.fu, lw.fv
+	m.velocity(lw, u, v, psi, m.workers)
 	m.plan.Inverse(qg, q)
 	b := m.blk
 	fixed := b != nil && b.mode == Fixed
 	for i := range u {
 		switch {
 		case fixed && b.linear:
-			m.fu[i] = b.u[n][i]*qg[i] + u[i]*b.qp[n][i]
-			m.fv[i] = b.v[n][i]*qg[i] + v[i]*b.qp[n][i]
+			fu[i] = b.u[n][i]*qg[i] + u[i]*b.qp[n][i]
+			fv[i] = b.v[n][i]*qg[i] + v[i]*b.qp[n][i]
 		case fixed:
-			m.fu[i] = b.u[n][i]*qg[i] + u[i]*b.qp[n][i] + u[i]*qg[i]
-			m.fv[i] = b.v[n][i]*qg[i] + v[i]*b.qp[n][i] + v[i]*qg[i]
+			fu[i] = b.u[n][i]*qg[i] + u[i]*b.qp[n][i] + u[i]*qg[i]
+			fv[i] = b.v[n][i]*qg[i] + v[i]*b.qp[n][i] + v[i]*qg[i]
 		default:
-			m.fu[i] = u[i] * qg[i]
-			m.fv[i] = v[i] * qg[i]
+			fu[i] = u[i] * qg[i]
+			fv[i] = v[i] * qg[i]
 		}
 	}
-	m.plan.Forward(m.specA, m.fu)
-	m.plan.Forward(m.specB, m.fv)
+	m.plan.Forward(lw.a, fu)
+	m.plan.Forward(lw.b, fv)
 	for p := range dst {
 		i, j := p%g.Nkx, p/g.Nkx
-		dst[p] = scale(-g.Keep[p], mulI(g.K[i], m.specA[p])+mulI(g.L[j], m.specB[p]))
+		dst[p] = scale(-g.Keep[p], mulI(g.K[i], lw.a[p])+mulI(g.L[j], lw.b[p]))
 	}
 }

@@ -1,0 +1,78 @@
+package qg
+
+import (
+	"sync"
+
+	"eddyblock/qg/fft"
+)
+
+// layerWork holds the work buffers of one layer's part of a step, so that
+// the two layers can be computed at the same time on two cores, each with
+// its own transform plan. Splitting the work by layer rather than inside
+// each transform avoids moving half of every field between the cores
+// between the zonal and the meridional passes.
+type layerWork struct {
+	plan     *fft.Plan2D
+	a, b     []complex128 // spectral scratch (velocities, then fluxes)
+	fu, fv   []float64    // gridded fluxes
+	rowRates [][NumTerms]float64
+	rowCFL   []float64
+	rowCFLAt [][3]float64
+	cfl      float64
+	cflAt    [3]float64
+}
+
+// newLayerWork builds the per-layer buffers and plans: with two or more
+// workers each layer has its own plan with half of the workers, otherwise
+// the layers share one single-worker plan and run one after the other.
+func (m *Model) newLayerWork() error {
+	g := m.g
+	ns, np := g.Ny*g.Nkx, g.Nx*g.Ny
+	inner := m.innerWorkers()
+	for n := range m.lw {
+		lw := &m.lw[n]
+		if n == 0 || m.workers >= 2 {
+			p, err := fft.NewPlan2D(g.Nx, g.Ny, inner)
+			if err != nil {
+				return err
+			}
+			lw.plan = p
+		} else {
+			lw.plan = m.lw[0].plan
+		}
+		lw.a, lw.b = make([]complex128, ns), make([]complex128, ns)
+		lw.fu, lw.fv = make([]float64, np), make([]float64, np)
+		lw.rowRates = make([][NumTerms]float64, g.Ny)
+		lw.rowCFL = make([]float64, g.Ny)
+		lw.rowCFLAt = make([][3]float64, g.Ny)
+	}
+	m.plan = m.lw[0].plan
+	return nil
+}
+
+// innerWorkers is the number of workers each layer's work may use.
+func (m *Model) innerWorkers() int {
+	if m.workers >= 2 {
+		return max(1, m.workers/2)
+	}
+	return 1
+}
+
+// eachLayer runs fn for both layers: concurrently with two or more
+// workers, one after the other otherwise. fn must touch only its layer's
+// buffers; the results are the same bits either way.
+func (m *Model) eachLayer(fn func(n int)) {
+	if m.workers < 2 {
+		fn(0)
+		fn(1)
+		return
+	}
+	var wg sync.WaitGroup
+	wg.Add(1)
+	go func() {
+		defer wg.Done()
+		fn(1)
+	}()
+	fn(0)
+	wg.Wait()
+}
