@@ -116,7 +116,7 @@ func (m *Model) SetBlock(b Block) error {
 		bs.force = [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
 		for n := range 2 {
 			for p := range ns {
-				bs.force[n][p] = -m.dq[n][p]
+				bs.force[n][p] = scale(-m.g.Keep[p], m.dq[n][p])
 			}
 		}
 	}

@@ -23,6 +23,11 @@ type Grid struct {
 	// Keep is 1 on the modes retained by the 2/3 rule (|i| ≤ Nx/3 and
 	// |j| ≤ Ny/3) and 0 elsewhere; the model's state lives on these modes.
 	Keep []float64
+	// KeptRows lists the rows j that hold retained modes, and KeptCols is
+	// the number of leading columns that do (i < KeptCols): the loops over
+	// the state visit only these, the other coefficients being zero.
+	KeptRows []int
+	KeptCols int
 	// Weight is the Hermitian multiplicity of each stored coefficient (1
 	// for i = 0 and i = Nx/2, 2 otherwise) times Keep, divided by M², so that
 	// Σ Weight·Re(a·conj(b)) is the domain mean of the product of two
@@ -48,6 +53,12 @@ func NewGrid(nx, ny int, lx, ly float64) *Grid {
 			jj = j - ny
 		}
 		g.L[j] = 2 * math.Pi * float64(jj) / ly
+	}
+	g.KeptCols = maxKeptIndex(nx) + 1
+	for j := range ny {
+		if j <= maxKeptIndex(ny) || ny-j <= maxKeptIndex(ny) {
+			g.KeptRows = append(g.KeptRows, j)
+		}
 	}
 	m := float64(nx) * float64(ny)
 	for j := range ny {

@@ -116,14 +116,16 @@ func (m *Model) stepRK4() error {
 		bdt, cdt := st.b*dt, next[s]*dt
 		last := s == 3
 		g := m.g
-		forRows(m.workers, g.Ny, func(lo, hi int) {
-			a, b := lo*g.Nkx, hi*g.Nkx
-			for n := range 2 {
-				kk, ac, qq, q00 := k[n][a:b], acc[n][a:b], qs[n][a:b], q0[n][a:b]
-				for p := range kk {
-					ac[p] += scale(bdt, kk[p])
-					if !last {
-						qq[p] = q00[p] + scale(cdt, kk[p])
+		forRows(m.workers, len(g.KeptRows), func(lo, hi int) {
+			for _, j := range g.KeptRows[lo:hi] {
+				a, b := j*g.Nkx, j*g.Nkx+g.KeptCols
+				for n := range 2 {
+					kk, ac, qq, q00 := k[n][a:b], acc[n][a:b], qs[n][a:b], q0[n][a:b]
+					for p := range kk {
+						ac[p] += scale(bdt, kk[p])
+						if !last {
+							qq[p] = q00[p] + scale(cdt, kk[p])
+						}
 					}
 				}
 			}
@@ -161,12 +163,14 @@ func (m *Model) stepAB3() error {
 		m.ledger[i] += c0*m.histRates[0][i] + c1*m.histRates[1][i] + c2*m.histRates[2][i]
 	}
 	g := m.g
-	forRows(m.workers, g.Ny, func(lo, hi int) {
-		a, b := lo*g.Nkx, hi*g.Nkx
-		for n := range 2 {
-			q, f0, f1, f2 := m.q[n][a:b], m.hist[0][n][a:b], m.hist[1][n][a:b], m.hist[2][n][a:b]
-			for p := range q {
-				q[p] += scale(c0, f0[p]) + scale(c1, f1[p]) + scale(c2, f2[p])
+	forRows(m.workers, len(g.KeptRows), func(lo, hi int) {
+		for _, j := range g.KeptRows[lo:hi] {
+			a, b := j*g.Nkx, j*g.Nkx+g.KeptCols
+			for n := range 2 {
+				q, f0, f1, f2 := m.q[n][a:b], m.hist[0][n][a:b], m.hist[1][n][a:b], m.hist[2][n][a:b]
+				for p := range q {
+					q[p] += scale(c0, f0[p]) + scale(c1, f1[p]) + scale(c2, f2[p])
+				}
 			}
 		}
 	})

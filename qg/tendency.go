@@ -10,7 +10,12 @@ import "math"
 func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms]float64) {
 	g := m.g
 	nk, nx := g.Nkx, g.Nx
-	forRows(m.workers, g.Ny, func(lo, hi int) { m.inv.Invert(psi, q, lo*nk, hi*nk) })
+	rows, nc := g.KeptRows, g.KeptCols
+	forRows(m.workers, len(rows), func(lo, hi int) {
+		for _, j := range rows[lo:hi] {
+			m.inv.Invert(psi, q, j*nk, j*nk+nc)
+		}
+	})
 	fixed := m.blk != nil && m.blk.mode == Fixed
 	relaxed := m.blk != nil && m.blk.mode == Relaxed
 	var force [2][]complex128
@@ -93,11 +98,11 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 			fn = force[n]
 		}
 		hyper := m.hyper
-		forRows(inner, g.Ny, func(lo, hi int) {
-			for j := lo; j < hi; j++ {
+		forRows(inner, len(rows), func(lo, hi int) {
+			for _, j := range rows[lo:hi] {
 				l := g.L[j]
 				var rAdv, rShear, rDrag, rHyp, rRel, rG float64
-				for i := range nk {
+				for i := range nc {
 					p := j*nk + i
 					keep := g.Keep[p]
 					if keep == 0 {
