@@ -58,3 +58,32 @@ func BenchmarkGonumPlain(b *testing.B) {
 		}
 	})
 }
+
+// benchColumns times the transforms of one worker with all nx/2+1 columns and with the imax+1 columns
+// kept by the 2/3 rule (SetColumns).
+func benchColumns(b *testing.B, inverse bool) {
+	for _, n := range []int{256, 512} {
+		for _, nc := range []int{n/2 + 1, keptColumns(n)} {
+			b.Run(fmt.Sprintf("n=%d/ncols=%d", n, nc), func(b *testing.B) {
+				p := mustPlan(b, n, n, 1)
+				if err := p.SetColumns(nc); err != nil {
+					b.Fatal(err)
+				}
+				f := randomField(n, n, 1)
+				c := make([]complex128, n*(n/2+1))
+				p.Forward(c, f)
+				b.ResetTimer()
+				for b.Loop() {
+					if inverse {
+						p.Inverse(f, c)
+					} else {
+						p.Forward(c, f)
+					}
+				}
+			})
+		}
+	}
+}
+
+func BenchmarkForwardColumns(b *testing.B) { benchColumns(b, false) }
+func BenchmarkInverseColumns(b *testing.B) { benchColumns(b, true) }

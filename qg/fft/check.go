@@ -22,3 +22,11 @@ func checkSize(name string, n int) error {
 	}
 	return nil
 }
+
+// checkColumns validates the argument of SetColumns for a plan with nx grid points along x.
+func checkColumns(ncols, nx int) error {
+	if ncols < 1 || ncols > nx/2+1 {
+		return fmt.Errorf("fft: SetColumns: ncols = %d, want 1 <= ncols <= nx/2+1 = %d", ncols, nx/2+1)
+	}
+	return nil
+}

@@ -32,6 +32,7 @@ var planner sync.Mutex
 type Plan2D struct {
 	nx, ny, workers int
 	h, w            int
+	nc              int // zonal wavenumbers covered (SetColumns)
 	fftw            *fftwPlans
 	re              []float64    // view of the FFTW real buffer, ny·nx
 	co              []complex128 // view of the FFTW complex buffer, ny·(nx/2+1)
@@ -70,7 +71,7 @@ func NewPlan2D(nx, ny, workers int) (*Plan2D, error) {
 		return nil, fmt.Errorf("fft: FFTW could not plan a %d×%d transform", nx, ny)
 	}
 	p := &Plan2D{
-		nx: nx, ny: ny, workers: workers, h: h, w: w, fftw: f,
+		nx: nx, ny: ny, workers: workers, h: h, w: w, nc: w, fftw: f,
 		re: unsafe.Slice((*float64)(unsafe.Pointer(f.re)), nx*ny),
 		co: unsafe.Slice((*complex128)(unsafe.Pointer(f.co)), ny*w),
 	}
@@ -94,6 +95,22 @@ func (p *Plan2D) Ny() int { return p.ny }
 // Workers returns the number of workers the plan was made for.
 func (p *Plan2D) Workers() int { return p.workers }
 
+// SetColumns restricts the transforms to the zonal wavenumbers i < ncols (1 ≤ ncols ≤ nx/2+1; ncols =
+// nx/2+1 restores the full transform): Inverse treats the coefficients of columns i ≥ ncols as zero (it
+// does not read them), and Forward computes only the columns i < ncols and writes zeros in the others.
+// The FFTW backend still does the full transform (it zeroes the columns); results are those of the full
+// transform with the columns i ≥ ncols zeroed. It returns an error if ncols is out of range.
+func (p *Plan2D) SetColumns(ncols int) error {
+	if err := checkColumns(ncols, p.nx); err != nil {
+		return err
+	}
+	p.nc = ncols
+	return nil
+}
+
+// Columns returns the number of zonal wavenumbers the transforms cover (see SetColumns).
+func (p *Plan2D) Columns() int { return p.nc }
+
 // Forward computes dst[j*(nx/2+1)+i] = Σ_y Σ_x src[y*nx+x]·exp(−2πi(i·x/nx + j·y/ny)) (unnormalised).
 // src is not modified. It panics unless len(src) = nx·ny and len(dst) = ny·(nx/2+1).
 func (p *Plan2D) Forward(dst []complex128, src []float64) {
@@ -114,6 +131,11 @@ func (p *Plan2D) Forward(dst []complex128, src []float64) {
 		C.fftw_execute(f.fwd)
 		copy(dst, p.co)
 	}
+	if p.nc < p.w {
+		for j := 0; j < p.ny; j++ {
+			clear(dst[j*p.w+p.nc : j*p.w+p.w])
+		}
+	}
 	runtime.KeepAlive(p)
 }
 
@@ -132,8 +154,12 @@ func (p *Plan2D) Inverse(dst []float64, src []complex128) {
 	// The normalisation is applied to the coefficients, on their way into FFTW's buffer.
 	sc := 1 / float64(p.nx*p.ny)
 	co := p.co[:len(src)]
-	for k, v := range src {
-		co[k] = complex(sc*real(v), sc*imag(v))
+	for j := 0; j < p.ny; j++ {
+		row, in := co[j*p.w:j*p.w+p.w], src[j*p.w:j*p.w+p.nc]
+		for i, v := range in {
+			row[i] = complex(sc*real(v), sc*imag(v))
+		}
+		clear(row[p.nc:])
 	}
 	for _, i := range [2]int{0, p.h} {
 		for j := 0; j <= p.ny/2; j++ {

@@ -79,13 +79,22 @@ func preT(dst, src []complex128, hw []complex128, half float64, h, w, ld, ya, yb
 // splitCol unpacks column 0 of the row-major ny×(h+1) array a, holding the transform Z of x0 + i·xh for
 // two real sequences x0, xh, into the transforms of x0 (column 0) and xh (column h):
 // F0[j] = (Z[j] + conj Z[−j])/2, Fh[j] = (Z[j] − conj Z[−j])/(2i) (two real FFTs for one, common practice).
-func splitCol(a []complex128, ny, h int) {
+// Without withH it writes column 0 only.
+func splitCol(a []complex128, ny, h int, withH bool) {
 	w := h + 1
 	for j := 0; j <= ny/2; j++ {
 		m := (ny - j) % ny
 		zj, zm := a[j*w], a[m*w]
 		sr, sd := 0.5*(real(zj)+real(zm)), 0.5*(imag(zj)-imag(zm))
 		dr, ds := 0.5*(real(zj)-real(zm)), 0.5*(imag(zj)+imag(zm))
+		if !withH {
+			if m == j {
+				a[j*w] = complex(sr, 0)
+			} else {
+				a[j*w], a[m*w] = complex(sr, sd), complex(sr, -sd)
+			}
+			continue
+		}
 		if m == j {
 			a[j*w], a[j*w+h] = complex(sr, 0), complex(ds, 0)
 			continue
@@ -98,13 +107,17 @@ func splitCol(a []complex128, ny, h int) {
 // joinCol fills columns 0..ib−1 of dst (row stride wd) from src (ny×(h+1)): column 0 gets H0 + i·Hh, where
 // H0[j] = (c[j][0] + conj c[−j][0])/2 and Hh likewise from column h are the Hermitian parts of the
 // columns i = 0 and i = h of src, whose inverse transforms are the real sequences x0 and xh, so the
-// inverse transform of column 0 is x0 + i·xh. Columns 1..ib−1 are copied.
-func joinCol(dst, src []complex128, ny, h, ib, wd int) {
+// inverse transform of column 0 is x0 + i·xh. Columns 1..ib−1 are copied. Without withH column h is
+// taken as zero (not read).
+func joinCol(dst, src []complex128, ny, h, ib, wd int, withH bool) {
 	w := h + 1
 	for j := 0; j < ny; j++ {
 		m := (ny - j) % ny
 		c0, c0m := src[j*w], src[m*w]
-		ch, chm := src[j*w+h], src[m*w+h]
+		var ch, chm complex128
+		if withH {
+			ch, chm = src[j*w+h], src[m*w+h]
+		}
 		h0r, h0i := 0.5*(real(c0)+real(c0m)), 0.5*(imag(c0)-imag(c0m))
 		hhr, hhi := 0.5*(real(ch)+real(chm)), 0.5*(imag(ch)-imag(chm))
 		dst[j*wd] = complex(h0r-hhi, h0i+hhr)

@@ -37,6 +37,10 @@ type core struct {
 	nx, ny, workers int
 	h, w            int // nx/2 and nx/2+1
 
+	// Column pruning (SetColumns): the transforms cover the zonal indices i < nc; nm = min(nc, h) columns
+	// of mid/tmp go through the meridional pass, column 0 carrying column h only when nc = w.
+	nc, nm int
+
 	xf batch // forward zonal transforms, length h, last stage radix 4 (fused with the post-processing)
 	xi batch // inverse zonal transforms, length h, first stage radix 4 (fused with the pre-processing)
 	yb batch // length ny along y, batch of ci columns (layout [j][column])
@@ -45,11 +49,13 @@ type core struct {
 	ipre  []complex128 // inverse pre-processing weights c·exp(−2πik/nx)/2, c = 1/(ny·h)
 	ihalf float64      // c/2
 
-	// mid (ny rows of stride ws) holds meridional partial results for the columns 0..h−1: the inverse's
-	// meridional result, or the forward's before its last meridional stage. ws is h rounded up to whole
-	// cache lines, so column ranges split at multiples of 4 share no cache line between workers.
+	// mid and tmp (ny rows of stride ws) hold results for the columns 0..h−1: mid the forward's zonal
+	// results, tmp its meridional partial results (before the last stage) and the inverse's meridional
+	// results. ws is h rounded up to whole cache lines, so column ranges split at multiples of 4 share no
+	// cache line between workers. With nc <= h, the columns nc..h−1 of tmp are zero (set by SetColumns;
+	// both transforms then write only the columns < nc of tmp), which the inverse zonal pass reads.
 	mid  []complex128
-	tmp  []complex128 // ny·ws: the forward's meridional partial results
+	tmp  []complex128
 	ws   int
 	bufs [][2][]complex128 // per-worker ping-pong buffers
 
@@ -69,7 +75,7 @@ func NewPlan2D(nx, ny, workers int) (*Plan2D, error) {
 	h := nx / 2
 	w := h + 1
 	p := &core{
-		nx: nx, ny: ny, workers: workers, h: h, w: w,
+		nx: nx, ny: ny, workers: workers, h: h, w: w, nc: w, nm: h,
 		xf: newBatchRadices(h, radicesLast4(h)),
 		xi: newBatchRadices(h, reversed(radicesLast4(h))),
 		yb: newBatch(ny, false),
@@ -128,7 +134,7 @@ func (p *core) ntasks(ph int) int {
 	case phFwdRows, phInvRows:
 		return (p.ny + cy - 1) / cy
 	case phFwdCols, phInvCols:
-		return (p.h + ci - 1) / ci
+		return (p.nm + ci - 1) / ci
 	default:
 		return min(p.yb.stages[len(p.yb.stages)-1].r, 8)
 	}
@@ -160,6 +166,29 @@ func (p *Plan2D) Ny() int { return p.ny }
 // Workers returns the number of goroutines a transform may use.
 func (p *Plan2D) Workers() int { return p.workers }
 
+// SetColumns restricts the transforms to the zonal wavenumbers i < ncols (1 ≤ ncols ≤ nx/2+1; ncols =
+// nx/2+1 restores the full transform): Inverse treats the coefficients of columns i ≥ ncols as zero (it
+// does not read them), and Forward computes only the columns i < ncols and writes zeros in the others.
+// The meridional pass then transforms only the first ncols columns, which saves about a sixth of the
+// work when the spectrum is truncated by the 2/3 rule. Results are the same, value for value, as those
+// of the full transform with the columns i ≥ ncols zeroed (Inverse: in its input; Forward: in its
+// output). It returns an error, and leaves the plan unchanged, if ncols is out of range.
+func (p *Plan2D) SetColumns(ncols int) error {
+	if err := checkColumns(ncols, p.nx); err != nil {
+		return err
+	}
+	p.nc, p.nm = ncols, min(ncols, p.h)
+	if ncols <= p.h {
+		for y := 0; y < p.ny; y++ {
+			clear(p.tmp[y*p.ws+ncols : y*p.ws+p.h])
+		}
+	}
+	return nil
+}
+
+// Columns returns the number of zonal wavenumbers the transforms cover (see SetColumns).
+func (p *Plan2D) Columns() int { return p.nc }
+
 // parallel runs the tasks of phase ph on all workers and waits for them.
 func (p *Plan2D) parallel(ph int) {
 	n := p.ntasks(ph)
@@ -185,7 +214,7 @@ func (p *Plan2D) Forward(dst []complex128, src []float64) {
 	p.parallel(phFwdRows)
 	p.parallel(phFwdCols)
 	p.parallel(phFwdLast)
-	splitCol(dst, p.ny, p.h)
+	splitCol(dst, p.ny, p.h, p.nc == p.w)
 	p.fsrc, p.fdst = nil, nil
 }
 
@@ -227,17 +256,28 @@ func (p *core) forwardRows(c, k int) {
 
 // forwardCols does the meridional transforms, but for their last stage, of column chunk c of mid as
 // worker k, writing tmp. Column 0 holds X[y][0] + i·X[y][h] (both real, packed by the post-processing).
+// Only the columns < nm are transformed.
 func (p *core) forwardCols(c, k int) {
-	ia, ib := part(c, p.ntasks(phFwdCols), p.h, 4)
+	ia, ib := part(c, p.ntasks(phFwdCols), p.nm, 4)
 	p.yb.runN(len(p.yb.stages)-1, p.tmp[ia:], p.mid[ia:], p.bufs[k][0], p.bufs[k][1], p.ws, p.ws, ldc, ib-ia, false)
 }
 
 // forwardLast does block c of the last meridional stage, tmp → dst, split by rows so that no two tasks
-// write the same cache line of dst (but at the ends of their row blocks).
+// write the same cache line of dst (but at the ends of their row blocks). With pruning (nc <= h) it
+// writes the columns < nc and zeroes the others in the same rows.
 func (p *core) forwardLast(c int) {
-	last := len(p.yb.stages) - 1
-	j0, j1 := part(c, p.ntasks(phFwdLast), p.yb.stages[last].r, 1)
-	p.yb.doRange(last, p.fdst, p.tmp, p.ws, p.w, p.h, false, j0, j1)
+	st := &p.yb.stages[len(p.yb.stages)-1]
+	j0, j1 := part(c, p.ntasks(phFwdLast), st.r, 1)
+	p.yb.doRange(len(p.yb.stages)-1, p.fdst, p.tmp, p.ws, p.w, p.nm, false, j0, j1)
+	if p.nc == p.w {
+		return
+	}
+	// the stage writes the rows j + R·t, j0 <= j < j1, t < ny/R (see stockham.go)
+	for j := j0; j < j1; j++ {
+		for y := j; y < p.ny; y += st.r {
+			clear(p.fdst[y*p.w+p.nc : y*p.w+p.w])
+		}
+	}
 }
 
 // Inverse computes dst[y*nx+x] = (1/(nx·ny)) Σ_j Σ_i c[j][i]·exp(2πi(i·x/nx + j·y/ny)), the sum running
@@ -260,22 +300,24 @@ func (p *Plan2D) Inverse(dst []float64, src []complex128) {
 	p.isrc, p.idst = nil, nil
 }
 
-// inverseCols does the meridional inverse transforms of column chunk c as worker k, src → mid. The
-// columns i = 0 and i = h are transformed together, as column 0 of mid holding the Hermitian part of
-// column 0 plus i times that of column h (packed by joinCol).
+// inverseCols does the meridional inverse transforms of column chunk c as worker k, src → tmp. The
+// columns i = 0 and i = h are transformed together, as column 0 of tmp holding the Hermitian part of
+// column 0 plus i times that of column h (packed by joinCol; column h is taken as zero when pruned).
+// Only the columns < nm are transformed.
 func (p *core) inverseCols(c, k int) {
-	ia, ib := part(c, p.ntasks(phInvCols), p.h, 4)
+	ia, ib := part(c, p.ntasks(phInvCols), p.nm, 4)
 	b0, b1 := p.bufs[k][0], p.bufs[k][1]
 	if ia == 0 {
-		joinCol(p.mid, p.isrc, p.ny, p.h, ib, p.ws)
-		p.yb.run(p.mid, p.mid, b0, b1, p.ws, p.ws, ldc, ib, true)
+		joinCol(p.tmp, p.isrc, p.ny, p.h, ib, p.ws, p.nc == p.w)
+		p.yb.run(p.tmp, p.tmp, b0, b1, p.ws, p.ws, ldc, ib, true)
 		return
 	}
-	p.yb.runN(len(p.yb.stages), p.mid[ia:], p.isrc[ia:], b0, b1, p.w, p.ws, ldc, ib-ia, true)
+	p.yb.runN(len(p.yb.stages), p.tmp[ia:], p.isrc[ia:], b0, b1, p.w, p.ws, ldc, ib-ia, true)
 }
 
-// inverseRows does the zonal complex-to-real transforms of row chunk c as worker k: pre-processing
-// (fused with the first stage), half-length inverse transforms, the last stage writing the field.
+// inverseRows does the zonal complex-to-real transforms of row chunk c as worker k, tmp → field:
+// pre-processing (fused with the first stage), half-length inverse transforms, the last stage writing
+// the field.
 func (p *core) inverseRows(c, k int) {
 	ya, yb := part(c, p.ntasks(phInvRows), p.ny, 1)
 	l := yb - ya
@@ -284,10 +326,10 @@ func (p *core) inverseRows(c, k int) {
 	last := len(xs) - 1
 	i := 0
 	if xs[0].radix == 4 && last > 0 {
-		preFirst4(cur, p.mid, p.h, p.ws, ldy, l, ya, p.ipre, p.ihalf, xs[0].bw)
+		preFirst4(cur, p.tmp, p.h, p.ws, ldy, l, ya, p.ipre, p.ihalf, xs[0].bw)
 		i = 1
 	} else {
-		preT(cur, p.mid, p.ipre, p.ihalf, p.h, p.ws, ldy, ya, yb)
+		preT(cur, p.tmp, p.ipre, p.ihalf, p.h, p.ws, ldy, ya, yb)
 	}
 	for ; i < last; i++ {
 		p.xi.do(i, nxt, cur, ldy, ldy, l, true)
