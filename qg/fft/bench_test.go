@@ -3,6 +3,7 @@ package fft
 import (
 	"fmt"
 	"testing"
+	"time"
 
 	"gonum.org/v1/gonum/dsp/fourier"
 )
@@ -87,3 +88,42 @@ func benchColumns(b *testing.B, inverse bool) {
 
 func BenchmarkForwardColumns(b *testing.B) { benchColumns(b, false) }
 func BenchmarkInverseColumns(b *testing.B) { benchColumns(b, true) }
+
+// BenchmarkColumnsInterleaved alternates the full and the pruned (2/3 rule) transform of one worker in
+// each iteration and reports the time of each and their ratio, which a shared machine's load changes
+// less than it changes separate runs. ns/op is the time of the pair.
+func BenchmarkColumnsInterleaved(b *testing.B) {
+	for _, dir := range []string{"Forward", "Inverse"} {
+		for _, n := range []int{256, 512} {
+			b.Run(fmt.Sprintf("%s/n=%d", dir, n), func(b *testing.B) {
+				full, pr := mustPlan(b, n, n, 1), mustPlan(b, n, n, 1)
+				if err := pr.SetColumns(keptColumns(n)); err != nil {
+					b.Fatal(err)
+				}
+				f := randomField(n, n, 1)
+				c := make([]complex128, n*(n/2+1))
+				full.Forward(c, f)
+				var tf, tp time.Duration
+				b.ResetTimer()
+				for b.Loop() {
+					for k, p := range [2]*Plan2D{full, pr} {
+						t0 := time.Now()
+						if dir == "Inverse" {
+							p.Inverse(f, c)
+						} else {
+							p.Forward(c, f)
+						}
+						if k == 0 {
+							tf += time.Since(t0)
+						} else {
+							tp += time.Since(t0)
+						}
+					}
+				}
+				b.ReportMetric(float64(tf.Nanoseconds())/float64(b.N), "full-ns/op")
+				b.ReportMetric(float64(tp.Nanoseconds())/float64(b.N), "pruned-ns/op")
+				b.ReportMetric(float64(tf)/float64(tp), "speedup")
+			})
+		}
+	}
+}

@@ -47,3 +47,45 @@ func Example() {
 	// round trip exact to 1e-14: true
 	// fft: nx = 48 is not a power of two >= 4
 }
+
+// With the spectrum truncated by the 2/3 rule (zonal indices i with 3i < nx, here i ≤ 5 of 0..8), the
+// transforms can skip the columns i > 5: Forward writes zeros there, and Inverse does not read them.
+func ExamplePlan2D_SetColumns() {
+	const nx, ny = 16, 8
+	p, err := fft.NewPlan2D(nx, ny, 1)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	if err := p.SetColumns((nx-1)/3 + 1); err != nil {
+		fmt.Println(err)
+		return
+	}
+	f := make([]float64, nx*ny)
+	for y := 0; y < ny; y++ {
+		for x := 0; x < nx; x++ {
+			f[y*nx+x] = math.Cos(2*math.Pi*3*float64(x)/nx) + math.Cos(2*math.Pi*7*float64(x)/nx)
+		}
+	}
+	c := make([]complex128, ny*(nx/2+1))
+	p.Forward(c, f)
+	w := nx/2 + 1
+	for k, v := range c {
+		if math.Hypot(real(v), imag(v)) > 1e-9 {
+			fmt.Printf("c[j=%d][i=%d] = %.3f\n", k/w, k%w, real(v))
+		}
+	}
+	p.Inverse(f, c)
+	var maxErr float64
+	for y := 0; y < ny; y++ {
+		for x := 0; x < nx; x++ {
+			maxErr = math.Max(maxErr, math.Abs(f[y*nx+x]-math.Cos(2*math.Pi*3*float64(x)/nx)))
+		}
+	}
+	fmt.Println("only the wave i = 3 is left, to 1e-14:", maxErr < 1e-14)
+	fmt.Println(p.SetColumns(10))
+	// Output:
+	// c[j=0][i=3] = 64.000
+	// only the wave i = 3 is left, to 1e-14: true
+	// fft: SetColumns: ncols = 10, want 1 <= ncols <= nx/2+1 = 9
+}
