@@ -36,6 +36,12 @@ func (m *Model) newLayerWork() error {
 			if err != nil {
 				return err
 			}
+			// Every field the model transforms lives on the retained
+			// modes, or is truncated to them afterwards: the meridional
+			// pass can skip the columns beyond them.
+			if err := p.SetColumns(g.KeptCols); err != nil {
+				return err
+			}
 			lw.plan = p
 		} else {
 			lw.plan = m.lw[0].plan

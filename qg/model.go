@@ -114,7 +114,8 @@ func (m *Model) Physics() Physics { return m.ph }
 func (m *Model) Inverter() *Inverter { return m.inv }
 
 // Plan returns the model's transform plan. It is shared with the model, so
-// it must not be used while the model steps.
+// it must not be used while the model steps, and it is restricted to the
+// retained zonal wavenumbers (fft.Plan2D.SetColumns).
 func (m *Model) Plan() *fft.Plan2D { return m.plan }
 
 // Time returns the model time, s.
@@ -223,7 +224,9 @@ func (m *Model) checkPhys(f []float64, what string) error {
 	return nil
 }
 
-// ToGrid transforms a spectral field to a new gridded field.
+// ToGrid transforms a spectral field to a new gridded field. Like every
+// transform of the model it ignores the zonal wavenumbers beyond those the
+// 2/3 rule retains.
 func (m *Model) ToGrid(s []complex128) []float64 {
 	f := make([]float64, m.g.Nx*m.g.Ny)
 	m.plan.Inverse(f, s)

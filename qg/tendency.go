@@ -24,6 +24,7 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 	}
 	inner := m.innerWorkers()
 	first := m.stage
+	idx, idy := 1/g.Dx, 1/g.Dy
 	m.eachLayer(func(n int) {
 		lw := &m.lw[n]
 		for j := range lw.rowRates {
@@ -54,7 +55,7 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 						}
 						if first {
 							ut, vt := u[p]+ub[x]+U, v[p]+vb[x]
-							if c := math.Abs(ut)/g.Dx + math.Abs(vt)/g.Dy; c > cmax || c != c {
+							if c := math.Abs(ut)*idx + math.Abs(vt)*idy; c > cmax || c != c {
 								cmax, cu, cv = c, ut, vt
 							}
 						}
@@ -67,7 +68,7 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 					}
 					if first {
 						for x := range uu {
-							if c := math.Abs(uu[x]+U)/g.Dx + math.Abs(vv[x])/g.Dy; c > cmax || c != c {
+							if c := math.Abs(uu[x]+U)*idx + math.Abs(vv[x])*idy; c > cmax || c != c {
 								cmax, cu, cv = c, uu[x]+U, vv[x]
 							}
 						}
