@@ -2,6 +2,8 @@ package experiment
 
 import (
 	"context"
+	"encoding"
+	"errors"
 	"fmt"
 	"math"
 
@@ -68,11 +70,17 @@ type Progress struct {
 	Residual float64   // d(KE+APE)/dt minus the sum of the rates, m² s⁻³
 }
 
+// String prints the progress line: energies (m² s⁻²), the CFL number, and
+// after the bar the mean rate of each budget term since the last line
+// (m² s⁻³): injection by the wave source, conversion from the shear, work of
+// the block's maintenance, Ekman drag, scale-selective dissipation, sponge,
+// and the residual d(KE+APE)/dt − Σ rates of the books.
 func (p Progress) String() string {
 	r := &p.Rates
-	return fmt.Sprintf("day %7.2f  KE %9.4g  APE %9.4g  CFL %5.3f  inj %9.3g  drag %9.3g  diss %9.3g  sponge %9.3g  shear %9.3g  resid %8.2g m2/s3",
-		p.Day, p.KE, p.APE, p.CFL, r[qg.TermSource]+r[qg.TermForcing], r[qg.TermDrag],
-		r[qg.TermFilter]+r[qg.TermHyperviscosity], r[qg.TermSponge], r[qg.TermShear]+r[qg.TermBlockForcing]+r[qg.TermRelaxation], p.Residual)
+	return fmt.Sprintf("day %6.1f  KE %7.4g  APE %7.4g  CFL %5.3f | inj %9.3g  shear %9.3g  block %9.3g  drag %9.3g  diss %9.3g  sponge %9.3g  resid %8.2g",
+		p.Day, p.KE, p.APE, p.CFL, r[qg.TermSource]+r[qg.TermForcing], r[qg.TermShear],
+		r[qg.TermBlockForcing]+r[qg.TermRelaxation], r[qg.TermDrag],
+		r[qg.TermFilter]+r[qg.TermHyperviscosity], r[qg.TermSponge], p.Residual)
 }
 
 // StepsPerDay returns the number of steps in a day of model time, rounded.
@@ -129,4 +137,38 @@ func (e *Experiment) progress(e0 float64) Progress {
 	p.Residual = (ke+ape-e0)/span - sum
 	e.lastLedger, e.lastTime = l, m.Time()
 	return p
+}
+
+// Checkpoint returns the restartable state of the run: the model's state and
+// the wave source's random generator (so a restart draws the same forcing).
+// The diagnostics are not part of it; a restarted run averages afresh.
+func (e *Experiment) Checkpoint() (*qg.Checkpoint, error) {
+	c := e.Model.Checkpoint()
+	if bm, ok := e.Maker.(encoding.BinaryMarshaler); ok {
+		b, err := bm.MarshalBinary()
+		if err != nil {
+			return nil, err
+		}
+		c.Extra["wavemaker"] = b
+	}
+	return c, nil
+}
+
+// Restore continues the run from a checkpoint written by the same
+// configuration.
+func (e *Experiment) Restore(c *qg.Checkpoint) error {
+	if err := e.Model.Restore(c); err != nil {
+		return err
+	}
+	if bu, ok := e.Maker.(encoding.BinaryUnmarshaler); ok {
+		b, ok := c.Extra["wavemaker"]
+		if !ok {
+			return errors.New("experiment: the checkpoint has no wave-source state")
+		}
+		if err := bu.UnmarshalBinary(b); err != nil {
+			return err
+		}
+	}
+	e.lastTime, e.lastLedger = c.Time, e.Model.Ledger()
+	return nil
 }

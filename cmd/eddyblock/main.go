@@ -4,6 +4,7 @@
 // Usage:
 //
 //	eddyblock run [-config file.toml] [-days N] [-workers N] [-quiet] [-out dir]
+//	              [-checkpoint file] [-restart file]
 //	eddyblock config          print the built-in experiment as TOML
 //	eddyblock check file.toml validate a configuration
 //
@@ -24,6 +25,7 @@ import (
 	"time"
 
 	"eddyblock/experiment"
+	"eddyblock/qg"
 )
 
 func main() {
@@ -35,6 +37,7 @@ func main() {
 
 const usage = `usage:
   eddyblock run [-config file.toml] [-days N] [-workers N] [-quiet] [-out dir]
+                [-checkpoint file] [-restart file]
   eddyblock config              print the built-in experiment as TOML
   eddyblock check file.toml     validate a configuration file`
 
@@ -72,6 +75,8 @@ func cmdRun(args []string, stdout, stderr io.Writer) error {
 	workers := fs.Int("workers", 0, "goroutines inside a step (overrides model.workers)")
 	quiet := fs.Bool("quiet", false, "print only the final summary")
 	out := fs.String("out", "", "directory for summary.json and series.json (created if missing)")
+	ckpt := fs.String("checkpoint", "", "restart file, replaced atomically at every progress report")
+	restart := fs.String("restart", "", "continue from this restart file (written by -checkpoint with the same configuration)")
 	if err := fs.Parse(args); err != nil {
 		return err
 	}
@@ -95,16 +100,37 @@ func cmdRun(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
+	if *restart != "" {
+		c, err := qg.LoadCheckpoint(*restart)
+		if err != nil {
+			return err
+		}
+		if err := e.Restore(c); err != nil {
+			return fmt.Errorf("%s: %w", *restart, err)
+		}
+		fmt.Fprintf(stdout, "restarted from %s at day %.2f\n", *restart, c.Time/86400)
+	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
 	fmt.Fprintf(stdout, "experiment %q: %d×%d grid, %.0f km × %.0f km, dt = %g s, %g days (spin-up %g)\n",
 		c.Name, c.Model.Nx, c.Model.Ny, c.Model.Lx/1e3, c.Model.Ly/1e3, c.Model.Dt, c.Run.Days, c.Run.SpinUpDays)
 	t0 := time.Now()
+	var saveErr error
 	err = e.Run(ctx, func(p experiment.Progress) {
 		if !*quiet {
 			fmt.Fprintln(stdout, p)
 		}
+		if *ckpt != "" && saveErr == nil {
+			c, err := e.Checkpoint()
+			if err == nil {
+				err = qg.SaveCheckpoint(*ckpt, c)
+			}
+			saveErr = err
+		}
 	})
+	if err == nil {
+		err = saveErr
+	}
 	wall := time.Since(t0)
 	if err != nil {
 		return err

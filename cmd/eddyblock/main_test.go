@@ -3,10 +3,13 @@ package main
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"eddyblock/qg"
 )
 
 // TestCommands runs the program's commands on a short, coarse experiment.
@@ -18,7 +21,7 @@ func TestCommands(t *testing.T) {
 	if err := run([]string{"run", "-config", cfg, "-out", filepath.Join(dir, "out")}, &out, &errb); err != nil {
 		t.Fatalf("run: %v\n%s", err, errb.String())
 	}
-	for _, want := range []string{"day    2.00", "day    4.00", "projection on the block", "done: 96 steps"} {
+	for _, want := range []string{"day    2.0", "day    4.0", "projection on the block", "done: 96 steps"} {
 		if !strings.Contains(out.String(), want) {
 			t.Errorf("output lacks %q:\n%s", want, out.String())
 		}
@@ -46,5 +49,49 @@ func TestCommands(t *testing.T) {
 	}
 	if err := run([]string{"fly"}, &out, &errb); err == nil {
 		t.Error("unknown command accepted")
+	}
+}
+
+// TestCheckpointRestart checks that a run stopped at day 2 and restarted
+// from its checkpoint ends in the same state as an uninterrupted run
+// (restart files must continue a run bit for bit, common practice).
+func TestCheckpointRestart(t *testing.T) {
+	dir := t.TempDir()
+	write := func(name string, days float64) string {
+		p := filepath.Join(dir, name)
+		os.WriteFile(p, []byte(fmt.Sprintf("[model]\nnx = 64\nny = 32\ndt = 3600.0\n[run]\ndays = %g\nspin_up_days = 1.0\nreport_days = 2.0\n", days)), 0o644)
+		return p
+	}
+	short, long := write("short.toml", 2), write("long.toml", 4)
+	var out, errb bytes.Buffer
+	ck := filepath.Join(dir, "state.ckpt")
+	if err := run([]string{"run", "-quiet", "-config", short, "-checkpoint", ck}, &out, &errb); err != nil {
+		t.Fatal(err)
+	}
+	endA := filepath.Join(dir, "a.ckpt")
+	if err := run([]string{"run", "-quiet", "-config", long, "-restart", ck, "-checkpoint", endA}, &out, &errb); err != nil {
+		t.Fatal(err)
+	}
+	endB := filepath.Join(dir, "b.ckpt")
+	if err := run([]string{"run", "-quiet", "-config", long, "-checkpoint", endB}, &out, &errb); err != nil {
+		t.Fatal(err)
+	}
+	a, errA := qg.LoadCheckpoint(endA)
+	b, errB := qg.LoadCheckpoint(endB)
+	if errA != nil || errB != nil {
+		t.Fatal(errA, errB)
+	}
+	if a.Time != 4*86400 || a.Time != b.Time {
+		t.Fatalf("end times %g and %g, want %g", a.Time, b.Time, 4*86400.0)
+	}
+	for n := range 2 {
+		for p := range a.Q[n] {
+			if a.Q[n][p] != b.Q[n][p] {
+				t.Fatalf("restarted run differs at layer %d mode %d: %v vs %v", n+1, p, a.Q[n][p], b.Q[n][p])
+			}
+		}
+	}
+	if err := run([]string{"run", "-config", long, "-restart", filepath.Join(dir, "missing.ckpt")}, &out, &errb); err == nil {
+		t.Error("missing restart file accepted")
 	}
 }
