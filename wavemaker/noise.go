@@ -1,6 +1,8 @@
 package wavemaker
 
 import (
+	"encoding/binary"
+	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -25,6 +27,7 @@ type Noise struct {
 	g      *qg.Grid
 	plan   *fft.Plan2D
 	rng    *rand.Rand
+	pcg    *rand.PCG // rng's source, kept for checkpoints
 	mask   []float64 // nil for no mask
 	modes  []int     // spectral indices of the band, retained modes only
 	vec    [2]float64
@@ -54,10 +57,12 @@ func NewNoise(cfg Config, m *qg.Model) (*Noise, error) {
 		return nil, fmt.Errorf("wavemaker: transform: %w", err)
 	}
 	ph := m.Physics()
+	pcg := rand.NewPCG(cfg.Seed, pcgStream)
 	s := &Noise{
 		kind: cfg.Kind, tau: cfg.CorrelationTime, eps: cfg.InjectionRate,
 		g: g, plan: plan,
-		rng:   rand.New(rand.NewPCG(cfg.Seed, pcgStream)),
+		rng:   rand.New(pcg),
+		pcg:   pcg,
 		mask:  maskField(g, cfg.Mask),
 		modes: bandModes(g, cfg.Band),
 		vec:   verticalVector(cfg.Vertical, ph),
@@ -164,4 +169,60 @@ func (s *Noise) Tendency(dst [2][]complex128) bool {
 	copy(s.buf, s.f)
 	s.emit(dst, s.sigma)
 	return true
+}
+
+// MarshalBinary returns the noise's state — its random generator and, for
+// red noise, the Ornstein–Uhlenbeck field — so that a run restarted from a
+// checkpoint draws the same increments as the run that wrote it.
+func (s *Noise) MarshalBinary() ([]byte, error) {
+	g, err := s.pcg.MarshalBinary()
+	if err != nil {
+		return nil, err
+	}
+	b := binary.LittleEndian.AppendUint32(nil, uint32(len(g)))
+	b = append(b, g...)
+	started := byte(0)
+	if s.started {
+		started = 1
+	}
+	b = append(b, started)
+	b = binary.LittleEndian.AppendUint32(b, uint32(len(s.f)))
+	for _, v := range s.f {
+		b = binary.LittleEndian.AppendUint64(b, math.Float64bits(v))
+	}
+	return b, nil
+}
+
+// UnmarshalBinary restores a state written by MarshalBinary for the same
+// configuration and grid.
+func (s *Noise) UnmarshalBinary(b []byte) error {
+	bad := errors.New("wavemaker: noise state: truncated or for another grid")
+	if len(b) < 4 {
+		return bad
+	}
+	n := int(binary.LittleEndian.Uint32(b))
+	b = b[4:]
+	if len(b) < n+5 {
+		return bad
+	}
+	if err := s.pcg.UnmarshalBinary(b[:n]); err != nil {
+		return fmt.Errorf("wavemaker: noise state: %w", err)
+	}
+	b = b[n:]
+	started := b[0] == 1
+	nf := int(binary.LittleEndian.Uint32(b[1:]))
+	b = b[5:]
+	if len(b) != 8*nf || (nf != 0 && nf != s.g.Nx*s.g.Ny) {
+		return bad
+	}
+	if nf == 0 {
+		s.f = nil
+	} else {
+		s.f = make([]float64, nf)
+		for i := range s.f {
+			s.f[i] = math.Float64frombits(binary.LittleEndian.Uint64(b[8*i:]))
+		}
+	}
+	s.started = started
+	return nil
 }
