@@ -58,7 +58,7 @@ func layerFit(t *testing.T, e *Experiment, name string) diag.Projection {
 // its energy budget and what its eddies do to the block.
 func TestDefaultExperiment(t *testing.T) {
 	if testing.Short() {
-		t.Skip("runs the full default experiment (about a minute)")
+		t.Skip("runs the full default experiment (about two minutes)")
 	}
 	t.Parallel()
 	e, s := runExperiment(t, Default())

@@ -37,9 +37,12 @@
 // The layout follows the physics: config.go (parameters and validation),
 // grid.go (wavenumbers and spectral operators), invert.go (PV inversion),
 // tendency.go (advection, background flow, drag, dissipation, forcings),
-// block.go (block modes), sponge.go, dissipation.go (filter and hyperviscosity), terms.go (the tendency of each term, for diagnostics), step.go (RK4 and AB3),
-// energy.go (energy, enstrophy and the ledger) and model.go (the Model type
-// that ties them together, CFL and finiteness checks).
+// terms.go (the tendency of each term, for diagnostics), block.go (block
+// modes), sponge.go, dissipation.go (filter and hyperviscosity), step.go
+// (RK4 and AB3), energy.go (energy, enstrophy and the ledger), layers.go
+// (the two layers computed concurrently), checkpoint.go (restart files) and
+// model.go (the Model type that ties them together, CFL and finiteness
+// checks).
 //
 // A Model is not safe for concurrent use; it uses Config.Workers goroutines
 // internally and its results are bit-identical whatever the number of
