@@ -6,8 +6,9 @@ import (
 )
 
 // TestWorkersBitIdentical checks that the state after a number of steps is
-// bit-for-bit the same whatever the number of workers (the project's
-// reproducibility requirement; DESIGN §3).
+// bit-for-bit the same whatever the number of workers (the design notes'
+// reproducibility requirement; the reference is the one-worker run, which
+// has no concurrency at all).
 func TestWorkersBitIdentical(t *testing.T) {
 	for _, scheme := range []Scheme{RK4, AB3} {
 		var ref [2][]complex128
