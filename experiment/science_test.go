@@ -103,6 +103,12 @@ func TestDefaultExperiment(t *testing.T) {
 	if m := s.Index.Mean; !(m > 1) {
 		t.Errorf("mean block index %.3f, want > 1 (the eddies strengthen the forced block)", m)
 	}
+	// The interface (heat) fluxes act against the block's thermal anomaly,
+	// the baroclinic part ψ1 − ψ2 of its pattern (Hoskins, James & White
+	// 1983; Shutts 1983).
+	if b := s.EddyInterface.Baroclinic; !(b < 0) {
+		t.Errorf("interface-flux projection on the block's baroclinic part %+.4f day⁻¹, want < 0 (erosion of the thermal anomaly)", b)
+	}
 	lp := layerFit(t, e, "psit_vort")
 	t.Logf("vorticity-flux tendency in the ψ inner product: %+.4f day⁻¹, correlation %+.3f", lp.Rate, lp.Correlation)
 	if !(lp.Rate > 0 && lp.Correlation > 0) {
@@ -123,7 +129,7 @@ func TestStormTrackOnAxisErodes(t *testing.T) {
 	t.Parallel()
 	c := Default()
 	c.Name = "storm-track-on-axis"
-	c.Wavemaker.Mask = wavemaker.MaskConfig{Kind: wavemaker.Patch, X: 5e6, Y: 5e6, WidthX: 1e6, WidthY: 7e5}
+	c.Wavemaker.Mask = wavemaker.MaskConfig{Kind: wavemaker.Patch, X: 7.5e6, Y: 5e6, WidthX: 1e6, WidthY: 7e5}
 	c.Run.Days, c.Run.SpinUpDays = 60, 20
 	_, s := runExperiment(t, c)
 	if r := s.EddyVorticity.Rate; !(r < 0) {

@@ -37,7 +37,7 @@ func main() {
 			c.Run.Days, c.Run.SpinUpDays = 60, 20
 			c.Run.SampleSteps = 3
 			yb := c.Block.Dipole.Y
-			patch := wavemaker.PatchConfig{X: 5e6, WidthX: 1e6, WidthY: 7e5}
+			patch := wavemaker.PatchConfig{X: 7.5e6, WidthX: 1e6, WidthY: 7e5}
 			if off == 0 {
 				patch.Y = yb
 				c.Wavemaker.Mask.Patches = []wavemaker.PatchConfig{patch}
