@@ -5,6 +5,8 @@
 //
 //	eddyblock run [-config file.toml] [-days N] [-workers N] [-quiet] [-out dir]
 //	              [-checkpoint file] [-restart file]
+//	eddyblock sweep -key K -values v1,v2,... [-config file.toml] [-jobs N] [-member i] [-out dir]
+//	                          run once per value of a configuration key, in parallel
 //	eddyblock config          print the built-in experiment as TOML
 //	eddyblock check file.toml validate a configuration
 //
@@ -38,6 +40,7 @@ func main() {
 const usage = `usage:
   eddyblock run [-config file.toml] [-days N] [-workers N] [-quiet] [-out dir]
                 [-checkpoint file] [-restart file]
+  eddyblock sweep -key K -values v1,v2,... [-config file.toml] [-jobs N] [-member i] [-out dir]
   eddyblock config              print the built-in experiment as TOML
   eddyblock check file.toml     validate a configuration file`
 
@@ -48,6 +51,8 @@ func run(args []string, stdout, stderr io.Writer) error {
 	switch args[0] {
 	case "run":
 		return cmdRun(args[1:], stdout, stderr)
+	case "sweep":
+		return cmdSweep(args[1:], stdout, stderr)
 	case "config":
 		fmt.Fprint(stdout, experiment.Default().TOML())
 		return nil
