@@ -39,45 +39,28 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 		}
 		forRows(inner, g.Ny, func(lo, hi int) {
 			for y := lo; y < hi; y++ {
-				var cmax, cu, cv float64
 				r := y * nx
+				uu, vv, qq := u[r:r+nx], v[r:r+nx], qg[r:r+nx]
+				var ub, vb, qb []float64
 				if fixed {
-					ub, vb, qb := m.blk.u[n][r:r+nx], m.blk.v[n][r:r+nx], m.blk.qp[n][r:r+nx]
-					for x := range nx {
-						p := r + x
-						if m.blk.linear {
-							fu[p] = ub[x]*qg[p] + u[p]*qb[x]
-							fv[p] = vb[x]*qg[p] + v[p]*qb[x]
-						} else {
-							ut, vt, qt := u[p]+ub[x], v[p]+vb[x], qg[p]+qb[x]
-							fu[p] = ut*qt - ub[x]*qb[x]
-							fv[p] = vt*qt - vb[x]*qb[x]
-						}
-						if first {
-							ut, vt := u[p]+ub[x]+U, v[p]+vb[x]
-							if c := math.Abs(ut)*idx + math.Abs(vt)*idy; c > cmax || c != c {
-								cmax, cu, cv = c, ut, vt
-							}
-						}
+					ub, vb, qb = m.blk.u[n][r:r+nx], m.blk.v[n][r:r+nx], m.blk.qp[n][r:r+nx]
+				}
+				m.fluxRow(fu[r:r+nx], fv[r:r+nx], uu, vv, qq, ub, vb, qb)
+				if !first {
+					continue
+				}
+				var cmax, cu, cv float64
+				for x := range uu {
+					ut, vt := uu[x]+U, vv[x]
+					if fixed {
+						ut, vt = ut+ub[x], vt+vb[x]
 					}
-				} else {
-					uu, vv, qq, ffu, ffv := u[r:r+nx], v[r:r+nx], qg[r:r+nx], fu[r:r+nx], fv[r:r+nx]
-					for x := range uu {
-						ffu[x] = uu[x] * qq[x]
-						ffv[x] = vv[x] * qq[x]
-					}
-					if first {
-						for x := range uu {
-							if c := math.Abs(uu[x]+U)*idx + math.Abs(vv[x])*idy; c > cmax || c != c {
-								cmax, cu, cv = c, uu[x]+U, vv[x]
-							}
-						}
+					if c := math.Abs(ut)*idx + math.Abs(vt)*idy; c > cmax || c != c {
+						cmax, cu, cv = c, ut, vt
 					}
 				}
-				if first {
-					lw.rowCFL[y] = cmax
-					lw.rowCFLAt[y] = [3]float64{float64(n + 1), cu, cv}
-				}
+				lw.rowCFL[y] = cmax
+				lw.rowCFLAt[y] = [3]float64{float64(n + 1), cu, cv}
 			}
 		})
 		fuh, fvh := lw.a, lw.b
@@ -197,5 +180,30 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 			m.cfl, m.cflAt = b.cfl, b.cflAt
 		}
 		m.cfl *= m.cfg.Dt
+	}
+}
+
+// fluxRow sets the gridded PV fluxes (fu, fv) = (uq, vq) of one row. With a
+// fixed block (ub, vb, qb not nil) the state is the eddy field and the
+// fluxes are (u_B + u)(q_B + q) − u_B q_B, or u_B q + u q_B when the block
+// mode is linear: the block's own flux u_B q_B is held, not advected.
+func (m *Model) fluxRow(fu, fv, u, v, q, ub, vb, qb []float64) {
+	switch {
+	case ub == nil:
+		for x := range u {
+			fu[x] = u[x] * q[x]
+			fv[x] = v[x] * q[x]
+		}
+	case m.blk.linear:
+		for x := range u {
+			fu[x] = ub[x]*q[x] + u[x]*qb[x]
+			fv[x] = vb[x]*q[x] + v[x]*qb[x]
+		}
+	default:
+		for x := range u {
+			ut, vt, qt := u[x]+ub[x], v[x]+vb[x], q[x]+qb[x]
+			fu[x] = ut*qt - ub[x]*qb[x]
+			fv[x] = vt*qt - vb[x]*qb[x]
+		}
 	}
 }

@@ -140,19 +140,13 @@ func (m *Model) advection(dst []complex128, n int, psi, q []complex128) {
 	m.velocity(lw, u, v, psi, m.workers)
 	m.plan.Inverse(qg, q)
 	b := m.blk
-	fixed := b != nil && b.mode == Fixed
-	for i := range u {
-		switch {
-		case fixed && b.linear:
-			fu[i] = b.u[n][i]*qg[i] + u[i]*b.qp[n][i]
-			fv[i] = b.v[n][i]*qg[i] + v[i]*b.qp[n][i]
-		case fixed:
-			fu[i] = b.u[n][i]*qg[i] + u[i]*b.qp[n][i] + u[i]*qg[i]
-			fv[i] = b.v[n][i]*qg[i] + v[i]*b.qp[n][i] + v[i]*qg[i]
-		default:
-			fu[i] = u[i] * qg[i]
-			fv[i] = v[i] * qg[i]
+	nx := g.Nx
+	for r := 0; r < len(u); r += nx {
+		var ub, vb, qb []float64
+		if b != nil && b.mode == Fixed {
+			ub, vb, qb = b.u[n][r:r+nx], b.v[n][r:r+nx], b.qp[n][r:r+nx]
 		}
+		m.fluxRow(fu[r:r+nx], fv[r:r+nx], u[r:r+nx], v[r:r+nx], qg[r:r+nx], ub, vb, qb)
 	}
 	m.plan.Forward(lw.a, fu)
 	m.plan.Forward(lw.b, fv)
