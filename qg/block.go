@@ -111,7 +111,7 @@ func (m *Model) SetBlock(b Block) error {
 		saved := m.forcings
 		m.forcings = nil
 		var rates [NumTerms]float64
-		m.tendency(m.dq, m.q, m.psiS, m.t, &rates)
+		m.tendency(m.dq, m.q, m.psiS, m.t, &rates, nil)
 		m.forcings = saved
 		bs.force = [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
 		for n := range 2 {

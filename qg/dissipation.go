@@ -33,33 +33,40 @@ func (m *Model) setDissipation() {
 	}
 }
 
-// applyFilter multiplies the state by the filter factors and returns the
-// energy this changed, Σ_k (f_k² − 1)·E_k, which is exact.
-func (m *Model) applyFilter() float64 {
+// filterLayer sets layer n of the state to the new state src filtered by
+// the cutoff filter (copied without one), and returns the energy the filter
+// changed in layer n, Σ_k (f_k² − 1)·E_n,k, which is exact; E_n,k =
+// −½ W_n w_k Re(ψ̂_n conj q̂_n) with ψ̂_n inverted from src. It reads both
+// layers of src and writes only layer n of the state.
+func (m *Model) filterLayer(n int, src [2][]complex128) float64 {
 	g, v := m.g, m.inv
 	nk := g.Nkx
-	rows := m.rowSum
-	forRows(m.workers, g.Ny, func(lo, hi int) {
-		for j := lo; j < hi; j++ {
-			var s float64
-			for p := j * nk; p < (j+1)*nk; p++ {
-				f := m.filter[p]
-				if f == 1 {
-					continue
-				}
-				x1, x2 := m.q[0][p], m.q[1][p]
-				if w := g.Weight[p]; w != 0 {
-					p1 := scale(v.a11[p], x1) + scale(v.a12[p], x2)
-					p2 := scale(v.a21[p], x1) + scale(v.a22[p], x2)
-					e := -0.5 * w * (m.ph.W1*dot(p1, x1) + m.ph.W2*dot(p2, x2))
-					s += (f*f - 1) * e
-				}
-				m.q[0][p] = scale(f, x1)
-				m.q[1][p] = scale(f, x2)
+	dst := m.q[n]
+	if m.filter == nil {
+		copy(dst, src[n])
+		return 0
+	}
+	b1, b2, wn := v.a11, v.a12, m.ph.W1
+	if n == 1 {
+		b1, b2, wn = v.a21, v.a22, m.ph.W2
+	}
+	rows := m.lw[n].rowSum
+	for j := range g.Ny {
+		var s float64
+		for p := j * nk; p < (j+1)*nk; p++ {
+			f, x := m.filter[p], src[n][p]
+			if f == 1 {
+				dst[p] = x
+				continue
 			}
-			rows[j] = s
+			if w := g.Weight[p]; w != 0 {
+				pn := scale(b1[p], src[0][p]) + scale(b2[p], src[1][p])
+				s += (f*f - 1) * (-0.5 * w * wn * dot(pn, x))
+			}
+			dst[p] = scale(f, x)
 		}
-	})
+		rows[j] = s
+	}
 	var s float64
 	for _, r := range rows {
 		s += r

@@ -85,30 +85,33 @@ func Enstrophy(g *Grid, q [2][]complex128) (z1, z2 float64) {
 	return g.Inner(q[0], q[0]) / 2, g.Inner(q[1], q[1]) / 2
 }
 
-// energyOf returns −½ Σ W_n ⟨ψ_n q_n⟩ for a spectral PV, inverting inline.
-func (m *Model) energyOf(q [2][]complex128) float64 {
-	rows := m.rowSum
-	nk := m.g.Nkx
-	v := m.inv
-	forRows(m.workers, m.g.Ny, func(lo, hi int) {
-		for j := lo; j < hi; j++ {
-			var s float64
-			for p := j * nk; p < (j+1)*nk; p++ {
-				w := m.g.Weight[p]
-				if w == 0 {
-					continue
-				}
-				x1, x2 := q[0][p], q[1][p]
-				p1 := scale(v.a11[p], x1) + scale(v.a12[p], x2)
-				p2 := scale(v.a21[p], x1) + scale(v.a22[p], x2)
-				s += w * (m.ph.W1*dot(p1, x1) + m.ph.W2*dot(p2, x2))
+// layerEnergy returns layer n's part of the energy, −½ W_n ⟨ψ_n q_n⟩, of
+// the spectral PV q, with ψ_n inverted inline. If psi is not nil, it also
+// stores ψ_n there.
+func (m *Model) layerEnergy(n int, q [2][]complex128, psi []complex128) float64 {
+	g, v := m.g, m.inv
+	nk := g.Nkx
+	b1, b2, wn := v.a11, v.a12, m.ph.W1
+	if n == 1 {
+		b1, b2, wn = v.a21, v.a22, m.ph.W2
+	}
+	rows := m.lw[n].rowSum
+	for j := range g.Ny {
+		var s float64
+		for p := j * nk; p < (j+1)*nk; p++ {
+			pn := scale(b1[p], q[0][p]) + scale(b2[p], q[1][p])
+			if psi != nil {
+				psi[p] = pn
 			}
-			rows[j] = s
+			if w := g.Weight[p]; w != 0 {
+				s += w * dot(pn, q[n][p])
+			}
 		}
-	})
+		rows[j] = s
+	}
 	var s float64
 	for _, r := range rows {
 		s += r
 	}
-	return -s / 2
+	return -0.5 * wn * s
 }

@@ -46,6 +46,20 @@ func (v *Inverter) Invert(psi, q [2][]complex128, lo, hi int) {
 	}
 }
 
+// InvertLayer sets layer n's streamfunction dst (n = 0 upper, 1 lower) from
+// the PV q of both layers on spectral points [lo, hi), with the same
+// arithmetic as Invert. dst must not alias q.
+func (v *Inverter) InvertLayer(n int, dst []complex128, q [2][]complex128, lo, hi int) {
+	q1, q2, d := q[0][lo:hi], q[1][lo:hi], dst[lo:hi]
+	b1, b2 := v.a11[lo:hi], v.a12[lo:hi]
+	if n == 1 {
+		b1, b2 = v.a21[lo:hi], v.a22[lo:hi]
+	}
+	for p := range q1 {
+		d[p] = complex(b1[p], 0)*q1[p] + complex(b2[p], 0)*q2[p]
+	}
+}
+
 // InvertAll sets psi from q on every spectral point.
 func (v *Inverter) InvertAll(psi, q [2][]complex128) { v.Invert(psi, q, 0, len(v.k2)) }
 

@@ -17,6 +17,7 @@ type layerWork struct {
 	fu, fv   []float64    // gridded fluxes
 	rowRates [][NumTerms]float64
 	rowCFL   []float64
+	rowSum   []float64 // per-row partial sums of the layer's energy
 	rowCFLAt [][3]float64
 	cfl      float64
 	cflAt    [3]float64
@@ -50,6 +51,7 @@ func (m *Model) newLayerWork() error {
 		lw.fu, lw.fv = make([]float64, np), make([]float64, np)
 		lw.rowRates = make([][NumTerms]float64, g.Ny)
 		lw.rowCFL = make([]float64, g.Ny)
+		lw.rowSum = make([]float64, g.Ny)
 		lw.rowCFLAt = make([][3]float64, g.Ny)
 	}
 	m.plan = m.lw[0].plan

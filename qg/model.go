@@ -46,22 +46,23 @@ type Model struct {
 	sources  []Source
 
 	// time stepping
-	qs, acc, dq [2][]complex128
-	psiS        [2][]complex128
-	hist        [3][2][]complex128 // AB3 tendencies, newest first
-	histRates   [3][NumTerms]float64
-	nhist       int
-	prev        [2][]complex128 // state before the step, restored on failure
+	qs, qs2   [2][]complex128 // stage values (RK4 alternates between them)
+	acc, dq   [2][]complex128
+	next      [2][]complex128 // the scheme's new state (acc or qs), before the split steps
+	psiS      [2][]complex128
+	hist      [3][2][]complex128 // AB3 tendencies, newest first
+	histRates [3][NumTerms]float64
+	nhist     int
+	prev      [2][]complex128 // state before the step, restored on failure
 
 	// tendency work
-	lw     [2]layerWork
-	u, v   [2][]float64
-	qp     [2][]float64
-	stage  bool // true while evaluating the first stage of a step
-	cfl    float64
-	cflAt  [3]float64 // layer, u, v at the CFL maximum
-	rowSum []float64
-	fbuf   [2][]complex128
+	lw    [2]layerWork
+	u, v  [2][]float64
+	qp    [2][]float64
+	stage bool // true while evaluating the first stage of a step
+	cfl   float64
+	cflAt [3]float64 // layer, u, v at the CFL maximum
+	fbuf  [2][]complex128
 
 	hyper      []float64 // ν K^(2p) per mode, hyperviscosity
 	filter     []float64 // exp(−λ(k) dt) per mode, cutoff filter
@@ -85,14 +86,13 @@ func NewModel(cfg Config) (*Model, error) {
 	ns, np := g.Ny*g.Nkx, g.Nx*g.Ny
 	spec := func() []complex128 { return make([]complex128, ns) }
 	pair := func() [2][]complex128 { return [2][]complex128{spec(), spec()} }
-	m.q, m.psi, m.qs, m.acc, m.dq, m.psiS, m.prev, m.fbuf = pair(), pair(), pair(), pair(), pair(), pair(), pair(), pair()
+	m.q, m.psi, m.qs, m.qs2, m.acc, m.dq, m.psiS, m.prev, m.fbuf = pair(), pair(), pair(), pair(), pair(), pair(), pair(), pair(), pair()
 	for i := range m.hist {
 		m.hist[i] = pair()
 	}
 	for n := range 2 {
 		m.u[n], m.v[n], m.qp[n] = make([]float64, np), make([]float64, np), make([]float64, np)
 	}
-	m.rowSum = make([]float64, g.Ny)
 	m.setDissipation()
 	m.setSponge()
 	if err := m.checkLinearStability(); err != nil {

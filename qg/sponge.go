@@ -28,39 +28,34 @@ func (m *Model) setSponge() {
 // or nil without a sponge.
 func (m *Model) SpongeRate() []float64 { return m.spongeRate }
 
-// applySponge relaxes the state towards its target (the block's PV in the
-// forced and relaxed modes, zero otherwise) by the exact factor
-// exp(−s(x)·dt) on the grid, and returns the energy this changed.
-func (m *Model) applySponge() float64 {
-	e0 := m.energyOf(m.q)
+// spongeLayer relaxes layer n of the state towards its target (the block's
+// PV in the forced and relaxed modes, zero otherwise) by the exact factor
+// exp(−s(x)·dt) on the grid, and truncates it to the retained modes.
+func (m *Model) spongeLayer(n int) {
 	g := m.g
 	nx := g.Nx
 	target := m.blk != nil && (m.blk.mode == Forced || m.blk.mode == Relaxed)
-	inner := m.innerWorkers()
-	m.eachLayer(func(n int) {
-		qp, plan := m.qp[n], m.lw[n].plan
-		plan.Inverse(qp, m.q[n])
-		forRows(inner, g.Ny, func(lo, hi int) {
-			for y := lo; y < hi; y++ {
-				row := qp[y*nx : (y+1)*nx]
-				if target {
-					qb := m.blk.qp[n][y*nx : (y+1)*nx]
-					for x, f := range m.sponge {
-						row[x] = qb[x] + f*(row[x]-qb[x])
-					}
-				} else {
-					for x, f := range m.sponge {
-						row[x] *= f
-					}
+	qp, plan := m.qp[n], m.lw[n].plan
+	plan.Inverse(qp, m.q[n])
+	forRows(m.innerWorkers(), g.Ny, func(lo, hi int) {
+		for y := lo; y < hi; y++ {
+			row := qp[y*nx : (y+1)*nx]
+			if target {
+				qb := m.blk.qp[n][y*nx : (y+1)*nx]
+				for x, f := range m.sponge {
+					row[x] = qb[x] + f*(row[x]-qb[x])
 				}
-			}
-		})
-		plan.Forward(m.q[n], qp)
-		for p, keep := range g.Keep {
-			if keep == 0 {
-				m.q[n][p] = 0
+			} else {
+				for x, f := range m.sponge {
+					row[x] *= f
+				}
 			}
 		}
 	})
-	return m.energyOf(m.q) - e0
+	plan.Forward(m.q[n], qp)
+	for p, keep := range g.Keep {
+		if keep == 0 {
+			m.q[n][p] = 0
+		}
+	}
 }

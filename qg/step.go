@@ -36,7 +36,7 @@ func (m *Model) Step() error {
 		err = m.stepRK4()
 	}
 	if err == nil {
-		err = m.afterStep()
+		err = m.afterStep(m.next)
 	}
 	if err != nil {
 		for n := range 2 {
@@ -84,25 +84,45 @@ func (m *Model) pushHist() [2][]complex128 {
 }
 
 // stepRK4 takes one classical RK4 step, keeping the first-stage tendency in
-// the AB3 history.
+// the AB3 history. Each layer's update of the stage is done by the
+// goroutine that computed its tendency; the stage values alternate between
+// two buffers, so that no layer writes the state the other is still
+// reading.
 func (m *Model) stepRK4() error {
 	dt := m.cfg.Dt
-	q0, qs, acc := m.q, m.qs, m.acc
+	q0, acc := m.q, m.acc
 	for n := range 2 {
 		copy(acc[n], q0[n])
 	}
 	stages := [4]struct{ c, b float64 }{{0, 1. / 6}, {0.5, 1. / 3}, {0.5, 1. / 3}, {1, 1. / 6}}
 	next := [4]float64{0.5, 0.5, 1, 0}
+	bufs := [2][2][]complex128{m.qs, m.qs2}
 	var rates [NumTerms]float64
 	var ledger Ledger
+	g := m.g
 	in := q0
 	for s, st := range stages {
 		k := m.dq
 		if s == 0 {
 			k = m.pushHist()
 		}
+		out := bufs[s%2]
+		bdt, cdt := st.b*dt, next[s]*dt
+		last := s == 3
+		update := func(n int) {
+			for _, j := range g.KeptRows {
+				a, b := j*g.Nkx, j*g.Nkx+g.KeptCols
+				kk, ac, qq, q00 := k[n][a:b], acc[n][a:b], out[n][a:b], q0[n][a:b]
+				for p := range kk {
+					ac[p] += scale(bdt, kk[p])
+					if !last {
+						qq[p] = q00[p] + scale(cdt, kk[p])
+					}
+				}
+			}
+		}
 		m.stage = s == 0
-		m.tendency(k, in, m.psiS, m.t+st.c*dt, &rates)
+		m.tendency(k, in, m.psiS, m.t+st.c*dt, &rates, update)
 		m.stage = false
 		if s == 0 {
 			m.histRates[0] = rates
@@ -113,28 +133,9 @@ func (m *Model) stepRK4() error {
 		for i, r := range rates {
 			ledger[i] += st.b * dt * r
 		}
-		bdt, cdt := st.b*dt, next[s]*dt
-		last := s == 3
-		g := m.g
-		forRows(m.workers, len(g.KeptRows), func(lo, hi int) {
-			for _, j := range g.KeptRows[lo:hi] {
-				a, b := j*g.Nkx, j*g.Nkx+g.KeptCols
-				for n := range 2 {
-					kk, ac, qq, q00 := k[n][a:b], acc[n][a:b], qs[n][a:b], q0[n][a:b]
-					for p := range kk {
-						ac[p] += scale(bdt, kk[p])
-						if !last {
-							qq[p] = q00[p] + scale(cdt, kk[p])
-						}
-					}
-				}
-			}
-		})
-		in = qs
+		in = out
 	}
-	for n := range 2 {
-		copy(m.q[n], acc[n])
-	}
+	m.next = acc
 	for i := range ledger {
 		m.ledger[i] += ledger[i]
 	}
@@ -150,73 +151,127 @@ func (m *Model) stepRK4() error {
 func (m *Model) stepAB3() error {
 	dt := m.cfg.Dt
 	k := m.pushHist()
+	c0, c1, c2 := 23*dt/12, -16*dt/12, 5*dt/12
+	g := m.g
+	out := m.qs
+	update := func(n int) {
+		for _, j := range g.KeptRows {
+			a, b := j*g.Nkx, j*g.Nkx+g.KeptCols
+			q, qn, f0, f1, f2 := m.q[n][a:b], out[n][a:b], m.hist[0][n][a:b], m.hist[1][n][a:b], m.hist[2][n][a:b]
+			for p := range q {
+				qn[p] = q[p] + (scale(c0, f0[p]) + scale(c1, f1[p]) + scale(c2, f2[p]))
+			}
+		}
+	}
 	var rates [NumTerms]float64
 	m.stage = true
-	m.tendency(k, m.q, m.psiS, m.t, &rates)
+	m.tendency(k, m.q, m.psiS, m.t, &rates, update)
 	m.stage = false
 	m.histRates[0] = rates
 	if err := m.checkCFL(); err != nil {
 		return err
 	}
-	c0, c1, c2 := 23*dt/12, -16*dt/12, 5*dt/12
 	for i := range m.ledger {
 		m.ledger[i] += c0*m.histRates[0][i] + c1*m.histRates[1][i] + c2*m.histRates[2][i]
 	}
-	g := m.g
-	forRows(m.workers, len(g.KeptRows), func(lo, hi int) {
-		for _, j := range g.KeptRows[lo:hi] {
-			a, b := j*g.Nkx, j*g.Nkx+g.KeptCols
-			for n := range 2 {
-				q, f0, f1, f2 := m.q[n][a:b], m.hist[0][n][a:b], m.hist[1][n][a:b], m.hist[2][n][a:b]
-				for p := range q {
-					q[p] += scale(c0, f0[p]) + scale(c1, f1[p]) + scale(c2, f2[p])
-				}
-			}
-		}
-	})
+	m.next = out
 	return nil
 }
 
-// afterStep applies the split steps (filter, sponge, sources), restores the
-// streamfunction and checks that the state is finite.
-func (m *Model) afterStep() error {
-	if m.filter != nil {
-		m.ledger[TermFilter] += m.applyFilter()
-	}
-	if m.sponge != nil {
-		m.ledger[TermSponge] += m.applySponge()
-	}
-	if len(m.sources) > 0 {
-		m.ledger[TermSource] += m.applySources()
-	}
-	for n := range 2 {
+// afterStep sets the state from the scheme's new state src and applies the
+// split steps (filter, sponge, sources), booking the energy each changed;
+// then it restores the streamfunction and checks that the state is finite.
+// The layers are processed concurrently where they are independent.
+func (m *Model) afterStep(src [2][]complex128) error {
+	var eFilter, eBefore, eAfter [2]float64
+	var finite [2]bool
+	sponge := m.sponge != nil
+	m.eachLayer(func(n int) {
+		eFilter[n] = m.filterLayer(n, src)
+		if sponge {
+			eBefore[n] = m.layerEnergyFiltered(n, src)
+			m.spongeLayer(n)
+		}
+	})
+	m.ledger[TermFilter] += eFilter[0] + eFilter[1]
+	// the streamfunction and energy of the state, and its finiteness
+	settle := func(n int) {
+		eAfter[n] = m.layerEnergy(n, m.q, m.psi[n])
 		var s float64
 		for _, z := range m.q[n] {
 			s += real(z)*real(z) + imag(z)*imag(z)
 		}
-		if math.IsNaN(s) || math.IsInf(s, 0) {
+		finite[n] = !math.IsNaN(s) && !math.IsInf(s, 0)
+	}
+	m.eachLayer(settle)
+	if sponge {
+		m.ledger[TermSponge] += (eAfter[0] + eAfter[1]) - (eBefore[0] + eBefore[1])
+	}
+	if len(m.sources) > 0 {
+		e0 := eAfter[0] + eAfter[1]
+		for _, s := range m.sources {
+			for n := range 2 {
+				clear(m.dq[n])
+			}
+			s.Increment(m.dq, m.t, m.cfg.Dt)
+			for n := range 2 {
+				for p, keep := range m.g.Keep {
+					m.q[n][p] += scale(keep, m.dq[n][p])
+				}
+			}
+		}
+		m.eachLayer(settle)
+		// E(q + Δq) − E(q) = −Σ_n W_n⟨(ψ_n + ½Δψ_n) Δq_n⟩: the midpoint
+		// (Stratonovich) evaluation, exact for a quadratic energy.
+		m.ledger[TermSource] += (eAfter[0] + eAfter[1]) - e0
+	}
+	for n := range 2 {
+		if !finite[n] {
 			return &StepError{m.t, m.steps, fmt.Sprintf("q%d", n+1), "PV is not finite after the step"}
 		}
 	}
-	m.inv.InvertAll(m.psi, m.q)
 	return nil
 }
 
-// applySources adds the sources' increments for the step and returns the
-// energy they injected, E(q + Δq) − E(q) = −Σ_n W_n⟨(ψ_n + ½Δψ_n) Δq_n⟩:
-// the midpoint (Stratonovich) evaluation, exact for a quadratic energy.
-func (m *Model) applySources() float64 {
-	e0 := m.energyOf(m.q)
-	for _, s := range m.sources {
-		for n := range 2 {
-			clear(m.dq[n])
-		}
-		s.Increment(m.dq, m.t, m.cfg.Dt)
-		for n := range 2 {
-			for p, keep := range m.g.Keep {
-				m.q[n][p] += scale(keep, m.dq[n][p])
-			}
-		}
+// layerEnergyFiltered returns layer n's part of the energy of the state the
+// filter makes of src, as layerEnergy does for the filtered state itself,
+// without reading the other layer's filtered state (which the other layer's
+// goroutine may be writing).
+func (m *Model) layerEnergyFiltered(n int, src [2][]complex128) float64 {
+	if m.filter == nil {
+		return m.layerEnergy(n, src, nil)
 	}
-	return m.energyOf(m.q) - e0
+	g, v := m.g, m.inv
+	nk := g.Nkx
+	b1, b2, wn := v.a11, v.a12, m.ph.W1
+	if n == 1 {
+		b1, b2, wn = v.a21, v.a22, m.ph.W2
+	}
+	rows := m.lw[n].rowSum
+	for j := range g.Ny {
+		var s float64
+		for p := j * nk; p < (j+1)*nk; p++ {
+			w := g.Weight[p]
+			if w == 0 {
+				continue
+			}
+			f := m.filter[p]
+			x1, x2 := src[0][p], src[1][p]
+			if f != 1 {
+				x1, x2 = scale(f, x1), scale(f, x2)
+			}
+			xn := x1
+			if n == 1 {
+				xn = x2
+			}
+			pn := scale(b1[p], x1) + scale(b2[p], x2)
+			s += w * dot(pn, xn)
+		}
+		rows[j] = s
+	}
+	var s float64
+	for _, r := range rows {
+		s += r
+	}
+	return -0.5 * wn * s
 }

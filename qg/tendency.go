@@ -7,15 +7,16 @@ import "math"
 // term of the tendency. The nonlinear term is computed in flux form,
 // J(ψ, q) = ∂x(uq) + ∂y(vq), from gridded u, v, q and truncated by the 2/3
 // rule; every other term is exact in spectral space.
-func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms]float64) {
+//
+// If update is not nil, update(n) is called once for each layer n as soon
+// as dq[n] is complete (by the goroutine that computed it when the layers
+// run concurrently), so that a time stepper's update of a layer is done
+// where its tendency is still in cache. update(n) may touch only layer n's
+// data and must not write q.
+func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms]float64, update func(n int)) {
 	g := m.g
 	nk, nx := g.Nkx, g.Nx
 	rows, nc := g.KeptRows, g.KeptCols
-	forRows(m.workers, len(rows), func(lo, hi int) {
-		for _, j := range rows[lo:hi] {
-			m.inv.Invert(psi, q, j*nk, j*nk+nc)
-		}
-	})
 	fixed := m.blk != nil && m.blk.mode == Fixed
 	relaxed := m.blk != nil && m.blk.mode == Relaxed
 	var force [2][]complex128
@@ -25,8 +26,14 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 	inner := m.innerWorkers()
 	first := m.stage
 	idx, idy := 1/g.Dx, 1/g.Dy
+	early := update != nil && len(m.forcings) == 0
 	m.eachLayer(func(n int) {
 		lw := &m.lw[n]
+		// Each layer inverts its own streamfunction from the PV of both:
+		// the layers' data then stay with the core that works on them.
+		for _, j := range rows {
+			m.inv.InvertLayer(n, psi[n], q, j*nk, j*nk+nc)
+		}
 		for j := range lw.rowRates {
 			lw.rowRates[j] = [NumTerms]float64{}
 		}
@@ -142,6 +149,9 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 				}
 			}
 		}
+		if early {
+			update(n)
+		}
 	})
 	*rates = [NumTerms]float64{}
 	r0, r1 := m.lw[0].rowRates, m.lw[1].rowRates
@@ -172,6 +182,9 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 			}
 		}
 		rates[TermForcing] = r
+	}
+	if update != nil && !early {
+		m.eachLayer(update)
 	}
 	if first {
 		a, b := &m.lw[0], &m.lw[1]
