@@ -148,18 +148,26 @@ func (m *Model) BlockMode() BlockMode {
 	return m.blk.mode
 }
 
-// velocity sets gridded u = −∂yψ and v = ∂xψ from a spectral ψ, with
-// the buffers and plan of lw and the given number of workers.
+// velocity sets gridded u = −∂yψ and v = ∂xψ from a spectral ψ on the
+// retained modes, with the buffers and plan of lw and the given number of
+// workers. The plan reads only the retained columns; the rows without
+// retained modes are zeroed.
 func (m *Model) velocity(lw *layerWork, u, v []float64, psi []complex128, workers int) {
-	nk := m.g.Nkx
+	g := m.g
+	nk, nc := g.Nkx, g.KeptCols
 	a, b := lw.a, lw.b
-	forRows(workers, m.g.Ny, func(lo, hi int) {
+	forRows(workers, g.Ny, func(lo, hi int) {
 		for j := lo; j < hi; j++ {
-			l := m.g.L[j]
-			for i := range nk {
-				p := j*nk + i
-				a[p] = mulI(-l, psi[p])
-				b[p] = mulI(m.g.K[i], psi[p])
+			aj, bj, pj := a[j*nk:j*nk+nc], b[j*nk:j*nk+nc], psi[j*nk:j*nk+nc]
+			if g.Keep[j*nk] == 0 { // column 0 is kept in every kept row
+				clear(aj)
+				clear(bj)
+				continue
+			}
+			l := g.L[j]
+			for i, z := range pj {
+				aj[i] = mulI(-l, z)
+				bj[i] = mulI(g.K[i], z)
 			}
 		}
 	})

@@ -1,7 +1,7 @@
 package qg
 
 import (
-	"sync"
+	"runtime"
 
 	"eddyblock/qg/fft"
 )
@@ -55,6 +55,10 @@ func (m *Model) newLayerWork() error {
 		lw.rowCFLAt = make([][3]float64, g.Ny)
 	}
 	m.plan = m.lw[0].plan
+	if m.workers >= 2 {
+		m.pair = newPartner()
+		runtime.AddCleanup(m, func(p *partner) { p.shutdown() }, m.pair)
+	}
 	return nil
 }
 
@@ -75,12 +79,5 @@ func (m *Model) eachLayer(fn func(n int)) {
 		fn(1)
 		return
 	}
-	var wg sync.WaitGroup
-	wg.Add(1)
-	go func() {
-		defer wg.Done()
-		fn(1)
-	}()
-	fn(0)
-	wg.Wait()
+	m.pair.run(fn)
 }

@@ -34,6 +34,7 @@ type Model struct {
 	inv     *Inverter
 	plan    *fft.Plan2D
 	workers int
+	pair    *partner // runs layer 1's part of each layer pass when workers >= 2
 
 	t     float64
 	steps int
