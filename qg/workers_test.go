@@ -12,6 +12,7 @@ import (
 func TestWorkersBitIdentical(t *testing.T) {
 	for _, scheme := range []Scheme{RK4, AB3} {
 		var ref [2][]complex128
+		var refLedger Ledger
 		for _, w := range []int{1, 2, 3, 4} {
 			m := benchModel(t, 64, w, scheme)
 			if err := m.Run(20); err != nil {
@@ -20,7 +21,12 @@ func TestWorkersBitIdentical(t *testing.T) {
 			q := m.SpectralPV()
 			if ref[0] == nil {
 				ref = [2][]complex128{append([]complex128(nil), q[0]...), append([]complex128(nil), q[1]...)}
+				refLedger = m.Ledger()
 				continue
+			}
+			// the energy books too: every reduction is summed in the same order
+			if l := m.Ledger(); l != refLedger {
+				t.Fatalf("%s, %d workers: energy ledger %v differs from 1 worker's %v", scheme, w, l, refLedger)
 			}
 			for n := range 2 {
 				for p := range q[n] {
