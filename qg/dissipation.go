@@ -39,17 +39,14 @@ func (m *Model) setDissipation() {
 // −½ W_n w_k Re(ψ̂_n conj q̂_n) with ψ̂_n inverted from src. It reads both
 // layers of src and writes only layer n of the state.
 func (m *Model) filterLayer(n int, src [2][]complex128) float64 {
-	g, v := m.g, m.inv
+	g := m.g
 	nk := g.Nkx
 	dst := m.q[n]
 	if m.filter == nil {
 		copy(dst, src[n])
 		return 0
 	}
-	b1, b2, wn := v.a11, v.a12, m.ph.W1
-	if n == 1 {
-		b1, b2, wn = v.a21, v.a22, m.ph.W2
-	}
+	b1, b2, wn := m.layerInversion(n)
 	rows := m.lw[n].rowSum
 	for j := range g.Ny {
 		var s float64
@@ -67,9 +64,5 @@ func (m *Model) filterLayer(n int, src [2][]complex128) float64 {
 		}
 		rows[j] = s
 	}
-	var s float64
-	for _, r := range rows {
-		s += r
-	}
-	return s
+	return sumRows(rows)
 }

@@ -85,33 +85,58 @@ func Enstrophy(g *Grid, q [2][]complex128) (z1, z2 float64) {
 	return g.Inner(q[0], q[0]) / 2, g.Inner(q[1], q[1]) / 2
 }
 
-// layerEnergy returns layer n's part of the energy, −½ W_n ⟨ψ_n q_n⟩, of
-// the spectral PV q, with ψ_n inverted inline. If psi is not nil, it also
-// stores ψ_n there.
-func (m *Model) layerEnergy(n int, q [2][]complex128, psi []complex128) float64 {
-	g, v := m.g, m.inv
-	nk := g.Nkx
-	b1, b2, wn := v.a11, v.a12, m.ph.W1
+// layerInversion returns the coefficients of layer n's inversion,
+// ψ̂_n = b1·q̂1 + b2·q̂2, and the layer's mass weight W_n.
+func (m *Model) layerInversion(n int) (b1, b2 []float64, wn float64) {
 	if n == 1 {
-		b1, b2, wn = v.a21, v.a22, m.ph.W2
+		return m.inv.a21, m.inv.a22, m.ph.W2
 	}
+	return m.inv.a11, m.inv.a12, m.ph.W1
+}
+
+// layerEnergy returns layer n's part of the energy, −½ W_n ⟨ψ_n q_n⟩, of
+// the spectral PV q multiplied mode by mode by the factors f (q itself if
+// f is nil), with ψ_n inverted inline. If psi is not nil, it also stores
+// ψ_n there. It reads both layers of q and writes only psi and layer n's
+// row sums, so the two layers may be done concurrently.
+func (m *Model) layerEnergy(n int, q [2][]complex128, f []float64, psi []complex128) float64 {
+	g := m.g
+	nk := g.Nkx
+	b1, b2, wn := m.layerInversion(n)
 	rows := m.lw[n].rowSum
 	for j := range g.Ny {
 		var s float64
 		for p := j * nk; p < (j+1)*nk; p++ {
-			pn := scale(b1[p], q[0][p]) + scale(b2[p], q[1][p])
+			w := g.Weight[p]
+			if w == 0 && psi == nil {
+				continue
+			}
+			x1, x2 := q[0][p], q[1][p]
+			if f != nil && f[p] != 1 {
+				x1, x2 = scale(f[p], x1), scale(f[p], x2)
+			}
+			pn := scale(b1[p], x1) + scale(b2[p], x2)
 			if psi != nil {
 				psi[p] = pn
 			}
-			if w := g.Weight[p]; w != 0 {
-				s += w * dot(pn, q[n][p])
+			if w != 0 {
+				xn := x1
+				if n == 1 {
+					xn = x2
+				}
+				s += w * dot(pn, xn)
 			}
 		}
 		rows[j] = s
 	}
+	return -0.5 * wn * sumRows(rows)
+}
+
+// sumRows returns the sum of per-row partial sums, in row order.
+func sumRows(rows []float64) float64 {
 	var s float64
 	for _, r := range rows {
 		s += r
 	}
-	return -0.5 * wn * s
+	return s
 }

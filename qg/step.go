@@ -189,14 +189,14 @@ func (m *Model) afterStep(src [2][]complex128) error {
 	m.eachLayer(func(n int) {
 		eFilter[n] = m.filterLayer(n, src)
 		if sponge {
-			eBefore[n] = m.layerEnergyFiltered(n, src)
+			eBefore[n] = m.layerEnergy(n, src, m.filter, nil) // the filtered state, without reading the other layer's
 			m.spongeLayer(n)
 		}
 	})
 	m.ledger[TermFilter] += eFilter[0] + eFilter[1]
 	// the streamfunction and energy of the state, and its finiteness
 	settle := func(n int) {
-		eAfter[n] = m.layerEnergy(n, m.q, m.psi[n])
+		eAfter[n] = m.layerEnergy(n, m.q, nil, m.psi[n])
 		var s float64
 		for _, z := range m.q[n] {
 			s += real(z)*real(z) + imag(z)*imag(z)
@@ -231,47 +231,4 @@ func (m *Model) afterStep(src [2][]complex128) error {
 		}
 	}
 	return nil
-}
-
-// layerEnergyFiltered returns layer n's part of the energy of the state the
-// filter makes of src, as layerEnergy does for the filtered state itself,
-// without reading the other layer's filtered state (which the other layer's
-// goroutine may be writing).
-func (m *Model) layerEnergyFiltered(n int, src [2][]complex128) float64 {
-	if m.filter == nil {
-		return m.layerEnergy(n, src, nil)
-	}
-	g, v := m.g, m.inv
-	nk := g.Nkx
-	b1, b2, wn := v.a11, v.a12, m.ph.W1
-	if n == 1 {
-		b1, b2, wn = v.a21, v.a22, m.ph.W2
-	}
-	rows := m.lw[n].rowSum
-	for j := range g.Ny {
-		var s float64
-		for p := j * nk; p < (j+1)*nk; p++ {
-			w := g.Weight[p]
-			if w == 0 {
-				continue
-			}
-			f := m.filter[p]
-			x1, x2 := src[0][p], src[1][p]
-			if f != 1 {
-				x1, x2 = scale(f, x1), scale(f, x2)
-			}
-			xn := x1
-			if n == 1 {
-				xn = x2
-			}
-			pn := scale(b1[p], x1) + scale(b2[p], x2)
-			s += w * dot(pn, xn)
-		}
-		rows[j] = s
-	}
-	var s float64
-	for _, r := range rows {
-		s += r
-	}
-	return -0.5 * wn * s
 }
