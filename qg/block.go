@@ -150,20 +150,15 @@ func (m *Model) BlockMode() BlockMode {
 
 // velocity sets gridded u = −∂yψ and v = ∂xψ from a spectral ψ on the
 // retained modes, with the buffers and plan of lw and the given number of
-// workers. The plan reads only the retained columns; the rows without
-// retained modes are zeroed.
+// workers. Only the retained modes of the velocity spectra are written (the
+// others stay zero) and the plan reads only the retained columns.
 func (m *Model) velocity(lw *layerWork, u, v []float64, psi []complex128, workers int) {
 	g := m.g
-	nk, nc := g.Nkx, g.KeptCols
-	a, b := lw.a, lw.b
-	forRows(workers, g.Ny, func(lo, hi int) {
-		for j := lo; j < hi; j++ {
+	nk, nc, rows := g.Nkx, g.KeptCols, g.KeptRows
+	a, b := lw.du, lw.dv
+	forRows(workers, len(rows), func(lo, hi int) {
+		for _, j := range rows[lo:hi] {
 			aj, bj, pj := a[j*nk:j*nk+nc], b[j*nk:j*nk+nc], psi[j*nk:j*nk+nc]
-			if g.Keep[j*nk] == 0 { // column 0 is kept in every kept row
-				clear(aj)
-				clear(bj)
-				continue
-			}
 			l := g.L[j]
 			for i, z := range pj {
 				aj[i] = mulI(-l, z)

@@ -13,7 +13,8 @@ import (
 // between the zonal and the meridional passes.
 type layerWork struct {
 	plan     *fft.Plan2D
-	a, b     []complex128 // spectral scratch (velocities, then fluxes)
+	a, b     []complex128 // spectral fluxes
+	du, dv   []complex128 // spectral velocities; zero outside the retained modes, which are the only ones written
 	fu, fv   []float64    // gridded fluxes
 	rowRates [][NumTerms]float64
 	rowCFL   []float64
@@ -48,6 +49,7 @@ func (m *Model) newLayerWork() error {
 			lw.plan = m.lw[0].plan
 		}
 		lw.a, lw.b = make([]complex128, ns), make([]complex128, ns)
+		lw.du, lw.dv = make([]complex128, ns), make([]complex128, ns)
 		lw.fu, lw.fv = make([]float64, np), make([]float64, np)
 		lw.rowRates = make([][NumTerms]float64, g.Ny)
 		lw.rowCFL = make([]float64, g.Ny)
