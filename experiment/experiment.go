@@ -139,9 +139,10 @@ func (e *Experiment) progress(e0 float64) Progress {
 	return p
 }
 
-// Checkpoint returns the restartable state of the run: the model's state and
-// the wave source's random generator (so a restart draws the same forcing).
-// The diagnostics are not part of it; a restarted run averages afresh.
+// Checkpoint returns the restartable state of the run: the model's state,
+// the wave source's random generator (so a restart draws the same forcing)
+// and the diagnostics' running means and series (so a restarted run's
+// summary is that of an uninterrupted one).
 func (e *Experiment) Checkpoint() (*qg.Checkpoint, error) {
 	c := e.Model.Checkpoint()
 	if bm, ok := e.Maker.(encoding.BinaryMarshaler); ok {
@@ -151,6 +152,11 @@ func (e *Experiment) Checkpoint() (*qg.Checkpoint, error) {
 		}
 		c.Extra["wavemaker"] = b
 	}
+	b, err := e.Diag.MarshalBinary()
+	if err != nil {
+		return nil, err
+	}
+	c.Extra["diagnostics"] = b
 	return c, nil
 }
 
@@ -168,6 +174,13 @@ func (e *Experiment) Restore(c *qg.Checkpoint) error {
 		if err := bu.UnmarshalBinary(b); err != nil {
 			return err
 		}
+	}
+	b, ok := c.Extra["diagnostics"]
+	if !ok {
+		return errors.New("experiment: the checkpoint has no diagnostics state")
+	}
+	if err := e.Diag.UnmarshalBinary(b); err != nil {
+		return err
 	}
 	e.lastTime, e.lastLedger = c.Time, e.Model.Ledger()
 	return nil

@@ -22,6 +22,9 @@ type Checkpoint struct {
 	Time   float64
 	Steps  int
 	Q      [2][]complex128
+	// Ledger is the energy booked by each term since the start of the
+	// run, so that the books of a restarted run continue too.
+	Ledger Ledger
 	Extra  map[string][]byte
 }
 
@@ -29,14 +32,14 @@ type Checkpoint struct {
 func (m *Model) Checkpoint() *Checkpoint {
 	return &Checkpoint{
 		Nx: m.g.Nx, Ny: m.g.Ny, Lx: m.g.Lx, Ly: m.g.Ly,
-		Time: m.t, Steps: m.steps,
+		Time: m.t, Steps: m.steps, Ledger: m.ledger,
 		Q:     [2][]complex128{append([]complex128(nil), m.q[0]...), append([]complex128(nil), m.q[1]...)},
 		Extra: map[string][]byte{},
 	}
 }
 
-// Restore sets the model's state from a checkpoint made on the same grid.
-// The AB3 history restarts with RK4 steps.
+// Restore sets the model's state and energy books from a checkpoint made on
+// the same grid. The AB3 history restarts with RK4 steps.
 func (m *Model) Restore(c *Checkpoint) error {
 	if c.Nx != m.g.Nx || c.Ny != m.g.Ny {
 		return fmt.Errorf("qg: checkpoint grid %d×%d does not match the model's %d×%d", c.Nx, c.Ny, m.g.Nx, m.g.Ny)
@@ -47,7 +50,7 @@ func (m *Model) Restore(c *Checkpoint) error {
 	if err := m.SetSpectralPV(c.Q); err != nil {
 		return fmt.Errorf("qg: checkpoint: %w", err)
 	}
-	m.t, m.steps = c.Time, c.Steps
+	m.t, m.steps, m.ledger = c.Time, c.Steps, c.Ledger
 	return nil
 }
 

@@ -53,8 +53,9 @@ func TestCommands(t *testing.T) {
 }
 
 // TestCheckpointRestart checks that a run stopped at day 2 and restarted
-// from its checkpoint ends in the same state as an uninterrupted run
-// (restart files must continue a run bit for bit, common practice).
+// from its checkpoint ends in the same state, with the same diagnostics, as
+// an uninterrupted run (restart files must continue a run bit for bit,
+// common practice).
 func TestCheckpointRestart(t *testing.T) {
 	dir := t.TempDir()
 	write := func(name string, days float64) string {
@@ -69,12 +70,25 @@ func TestCheckpointRestart(t *testing.T) {
 		t.Fatal(err)
 	}
 	endA := filepath.Join(dir, "a.ckpt")
-	if err := run([]string{"run", "-quiet", "-config", long, "-restart", ck, "-checkpoint", endA}, &out, &errb); err != nil {
+	outA, outB := filepath.Join(dir, "outA"), filepath.Join(dir, "outB")
+	if err := run([]string{"run", "-quiet", "-config", long, "-restart", ck, "-checkpoint", endA, "-out", outA}, &out, &errb); err != nil {
 		t.Fatal(err)
 	}
 	endB := filepath.Join(dir, "b.ckpt")
-	if err := run([]string{"run", "-quiet", "-config", long, "-checkpoint", endB}, &out, &errb); err != nil {
+	if err := run([]string{"run", "-quiet", "-config", long, "-checkpoint", endB, "-out", outB}, &out, &errb); err != nil {
 		t.Fatal(err)
+	}
+	// the diagnostics continue too: the summaries and the series (which
+	// span the spin-up at day 1, before the restart) are the same bytes
+	for _, f := range []string{"summary.json", "series.json"} {
+		a, errA := os.ReadFile(filepath.Join(outA, f))
+		b, errB := os.ReadFile(filepath.Join(outB, f))
+		if errA != nil || errB != nil {
+			t.Fatal(errA, errB)
+		}
+		if !bytes.Equal(a, b) {
+			t.Errorf("%s of the restarted run differs from the uninterrupted run's", f)
+		}
 	}
 	a, errA := qg.LoadCheckpoint(endA)
 	b, errB := qg.LoadCheckpoint(endB)
