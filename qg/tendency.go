@@ -26,7 +26,18 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 	inner := m.innerWorkers()
 	first := m.stage
 	idx, idy := 1/g.Dx, 1/g.Dy
-	early := update != nil && len(m.forcings) == 0
+	// The forcings do not depend on the state: evaluate them first, so that
+	// each layer adds its part in its own pass.
+	var ext [2][]complex128
+	if len(m.forcings) > 0 {
+		ext = m.fbuf
+		for n := range 2 {
+			clear(ext[n])
+		}
+		for _, f := range m.forcings {
+			f.AddTendency(ext, t)
+		}
+	}
 	m.eachLayer(func(n int) {
 		lw := &m.lw[n]
 		// Each layer inverts its own streamfunction from the PV of both:
@@ -81,7 +92,10 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 			w, qy, drag = m.ph.W2, m.ph.Q2y, m.cfg.Drag
 		}
 		qn, pn, dn := q[n], psi[n], dq[n]
-		var qb, fn []complex128
+		var qb, fn, xn []complex128
+		if ext[n] != nil {
+			xn = ext[n]
+		}
 		if relaxed {
 			qb = m.blk.q[n]
 		}
@@ -92,7 +106,7 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 		forRows(inner, len(rows), func(lo, hi int) {
 			for _, j := range rows[lo:hi] {
 				l := g.L[j]
-				var rAdv, rShear, rDrag, rHyp, rRel, rG float64
+				var rAdv, rShear, rDrag, rHyp, rRel, rG, rF float64
 				for i := range nc {
 					p := j*nk + i
 					keep := g.Keep[p]
@@ -127,6 +141,10 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 						tot += fn[p]
 						rG += wp * dot(ps, fn[p])
 					}
+					if xn != nil {
+						tot += xn[p]
+						rF += wp * dot(ps, xn[p])
+					}
 					dn[p] = tot
 				}
 				rr := &lw.rowRates[j]
@@ -136,6 +154,7 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 				rr[TermHyperviscosity] = -w * rHyp
 				rr[TermRelaxation] = -w * rRel
 				rr[TermBlockForcing] = -w * rG
+				rr[TermForcing] = -w * rF
 			}
 		})
 		if first {
@@ -149,7 +168,7 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 				}
 			}
 		}
-		if early {
+		if update != nil {
 			update(n)
 		}
 	})
@@ -159,32 +178,6 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 		for k := range rates {
 			rates[k] += r0[j][k] + r1[j][k]
 		}
-	}
-	if len(m.forcings) > 0 {
-		for n := range 2 {
-			clear(m.fbuf[n])
-		}
-		for _, f := range m.forcings {
-			f.AddTendency(m.fbuf, t)
-		}
-		var r float64
-		for n := range 2 {
-			w := m.ph.W1
-			if n == 1 {
-				w = m.ph.W2
-			}
-			for p, keep := range g.Keep {
-				if keep == 0 {
-					continue
-				}
-				dq[n][p] += m.fbuf[n][p]
-				r -= w * g.Weight[p] * dot(psi[n][p], m.fbuf[n][p])
-			}
-		}
-		rates[TermForcing] = r
-	}
-	if update != nil && !early {
-		m.eachLayer(update)
 	}
 	if first {
 		a, b := &m.lw[0], &m.lw[1]
