@@ -31,8 +31,10 @@ type Config struct {
 // DiagConfig chooses how the diagnostics define eddies and project on the
 // block (see package qg/diag).
 type DiagConfig struct {
-	// Norm is the inner product of the projections: "energy" (the default)
-	// or "layer".
+	// Norm is the inner product of the projections: "layer", the plain
+	// mass-weighted ψ inner product (the built-in experiments' choice), or
+	// "energy", the two-layer energy inner product (what an empty value
+	// selects).
 	Norm diag.Norm `toml:"norm" json:"norm"`
 	// Transient, in the fixed mode, takes the eddies as departures from
 	// their own time mean instead of the whole eddy state.

@@ -9,19 +9,31 @@ import (
 	"eddyblock/qg"
 )
 
-// TestDefaultRoundTrip checks that the built-in experiment is valid and that
-// its TOML document reads back to the same configuration.
+// TestDefaultRoundTrip checks that the built-in experiments are valid, that
+// their TOML documents read back to the same configurations (also when read
+// over the default, as a configuration file is), and that Builtin finds them
+// by name and refuses an unknown one.
 func TestDefaultRoundTrip(t *testing.T) {
-	d := Default()
-	if err := d.Validate(); err != nil {
-		t.Fatalf("default experiment invalid: %v", err)
+	for _, d := range []Config{Default(), StormTrack()} {
+		if err := d.Validate(); err != nil {
+			t.Fatalf("%s: invalid: %v", d.Name, err)
+		}
+		for _, base := range []Config{{}, Default()} {
+			back, err := Decode(strings.NewReader(d.TOML()), base)
+			if err != nil {
+				t.Fatalf("%s: TOML does not decode: %v", d.Name, err)
+			}
+			if !reflect.DeepEqual(back, d) {
+				t.Errorf("%s: round trip changed the configuration:\n got %+v\nwant %+v", d.Name, back, d)
+			}
+		}
+		b, err := Builtin(d.Name)
+		if err != nil || !reflect.DeepEqual(b, d) {
+			t.Errorf("Builtin(%q): %v", d.Name, err)
+		}
 	}
-	back, err := Decode(strings.NewReader(d.TOML()), Config{})
-	if err != nil {
-		t.Fatalf("default TOML does not decode: %v", err)
-	}
-	if !reflect.DeepEqual(back, d) {
-		t.Errorf("round trip changed the configuration:\n got %+v\nwant %+v", back, d)
+	if _, err := Builtin("no-such-experiment"); err == nil || !strings.Contains(err.Error(), "no-such-experiment") {
+		t.Errorf("Builtin of an unknown name: error %v", err)
 	}
 }
 
@@ -46,7 +58,9 @@ func TestDecodeErrors(t *testing.T) {
 		{"[wavemaker.mask]\npatches = [{x = 1e6, y = 2e7, width_x = 1e6, width_y = 1e6}]\n", "wavemaker.mask.patches[0].y"},
 		{"[diagnostics]\nnorm = \"taxicab\"\n", "diagnostics.norm"},
 	} {
-		_, err := Decode(strings.NewReader(tc.doc), Default())
+		// over the stochastic built-in experiment, so that the noise's keys
+		// are checked
+		_, err := Decode(strings.NewReader(tc.doc), StormTrack())
 		var fe *qg.FieldError
 		if !errors.As(err, &fe) || !strings.HasPrefix(fe.Field, tc.key) {
 			t.Errorf("%q: got %v, want an error naming %s", tc.doc, err, tc.key)

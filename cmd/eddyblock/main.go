@@ -7,7 +7,7 @@
 //	              [-checkpoint file] [-restart file]
 //	eddyblock sweep -key K -values v1,v2,... [-config file.toml] [-jobs N] [-member i] [-out dir]
 //	                          run once per value of a configuration key, in parallel
-//	eddyblock config          print the built-in experiment as TOML
+//	eddyblock config [name]   print a built-in experiment as TOML (the default, or storm-track-ending-at-block)
 //	eddyblock check file.toml validate a configuration
 //
 // A configuration file needs only the keys it changes; everything else keeps
@@ -41,7 +41,8 @@ const usage = `usage:
   eddyblock run [-config file.toml] [-days N] [-workers N] [-quiet] [-out dir]
                 [-checkpoint file] [-restart file]
   eddyblock sweep -key K -values v1,v2,... [-config file.toml] [-jobs N] [-member i] [-out dir]
-  eddyblock config              print the built-in experiment as TOML
+  eddyblock config [name]       print a built-in experiment as TOML: the default
+                                (wave-train-strained-by-block) or storm-track-ending-at-block
   eddyblock check file.toml     validate a configuration file`
 
 func run(args []string, stdout, stderr io.Writer) error {
@@ -54,7 +55,18 @@ func run(args []string, stdout, stderr io.Writer) error {
 	case "sweep":
 		return cmdSweep(args[1:], stdout, stderr)
 	case "config":
-		fmt.Fprint(stdout, experiment.Default().TOML())
+		c := experiment.Default()
+		switch len(args) {
+		case 1:
+		case 2:
+			var err error
+			if c, err = experiment.Builtin(args[1]); err != nil {
+				return err
+			}
+		default:
+			return errors.New("config takes at most one built-in experiment's name\n" + usage)
+		}
+		fmt.Fprint(stdout, c.TOML())
 		return nil
 	case "check":
 		if len(args) != 2 {

@@ -9,6 +9,7 @@ import (
 	"strings"
 	"testing"
 
+	"eddyblock/experiment"
 	"eddyblock/qg"
 )
 
@@ -115,8 +116,13 @@ func TestCheckpointRestart(t *testing.T) {
 // runs alone.
 func TestSweep(t *testing.T) {
 	dir := t.TempDir()
+	// the stochastic built-in experiment, whose injection rate is swept,
+	// coarse and short
+	st := experiment.StormTrack()
+	st.Model.Nx, st.Model.Ny, st.Model.Dt = 64, 32, 3600
+	st.Run.Days, st.Run.SpinUpDays, st.Run.ReportDays, st.Run.SampleSteps = 4, 1, 2, 1
 	cfg := filepath.Join(dir, "short.toml")
-	os.WriteFile(cfg, []byte("[model]\nnx = 64\nny = 32\ndt = 3600.0\n[run]\ndays = 4.0\nspin_up_days = 1.0\nreport_days = 2.0\n"), 0o644)
+	os.WriteFile(cfg, []byte(st.TOML()), 0o644)
 	var out, errb bytes.Buffer
 	err := run([]string{"sweep", "-config", cfg, "-key", "wavemaker.injection_rate", "-values", "1e-6,4e-6", "-jobs", "2", "-out", dir}, &out, &errb)
 	if err != nil {

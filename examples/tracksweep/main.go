@@ -1,5 +1,6 @@
-// Tracksweep runs the built-in experiment at reduced resolution for several
-// positions of the storm track relative to the block — from the block's axis
+// Tracksweep runs the built-in stochastic storm track (experiment.StormTrack)
+// at reduced resolution for several positions of the track relative to the
+// block — from the block's axis
 // to the branches of the split flow — one experiment per core, and prints
 // what the eddies do to the block in each: the projection of their
 // vorticity-flux and interface-flux tendencies on the block (day⁻¹, > 0
@@ -32,7 +33,7 @@ func main() {
 			defer wg.Done()
 			sem <- struct{}{}
 			defer func() { <-sem }()
-			c := experiment.Default()
+			c := experiment.StormTrack()
 			c.Model.Nx, c.Model.Ny, c.Model.Dt = 128, 64, 1800 // 156 km grid
 			c.Run.Days, c.Run.SpinUpDays = 60, 20
 			c.Run.SampleSteps = 3
