@@ -5,8 +5,10 @@
 // the examples are thin layers over it.
 //
 // A configuration is a TOML document with the tables [model], [block],
-// [wavemaker] and [run]; Default returns the built-in experiment, and
-// Config.TOML prints any configuration as a complete, commented-free
-// document that Decode reads back. Unknown keys are errors, so a misspelt
+// [wavemaker], [run] and [diagnostics]. Default returns the built-in
+// experiment (a wave train strained by the block), StormTrack a stochastic
+// storm track that ends at the block, and Builtin either by name;
+// Config.TOML prints any configuration as a complete, comment-free document
+// that Decode reads back. Unknown keys are errors, so a misspelt
 // key never silently falls back to a default.
 package experiment
