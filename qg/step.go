@@ -194,9 +194,15 @@ func (m *Model) afterStep(src [2][]complex128) error {
 		}
 	})
 	m.ledger[TermFilter] += eFilter[0] + eFilter[1]
-	// the streamfunction and energy of the state, and its finiteness
+	// the energy of the state, its finiteness and, once the state is
+	// final, its streamfunction
+	final := len(m.sources) == 0
 	settle := func(n int) {
-		eAfter[n] = m.layerEnergy(n, m.q, nil, m.psi[n])
+		var psi []complex128
+		if final {
+			psi = m.psi[n]
+		}
+		eAfter[n] = m.layerEnergy(n, m.q, nil, psi)
 		var s float64
 		for _, z := range m.q[n] {
 			s += real(z)*real(z) + imag(z)*imag(z)
@@ -220,6 +226,7 @@ func (m *Model) afterStep(src [2][]complex128) error {
 				}
 			}
 		}
+		final = true
 		m.eachLayer(settle)
 		// E(q + Δq) − E(q) = −Σ_n W_n⟨(ψ_n + ½Δψ_n) Δq_n⟩: the midpoint
 		// (Stratonovich) evaluation, exact for a quadratic energy.
