@@ -64,39 +64,16 @@ func track(g *qg.Grid, a, b []complex128, gx, gy, w float64) (sx, sy, corr float
 // no drag and no dissipation: a barotropic state stays barotropic, so the
 // model reduces to the barotropic vorticity equation on the β-plane.
 func TestModonTravelsEast(t *testing.T) {
-	cfg := qg.Config{
-		Nx: 128, Ny: 64, Lx: 12.8e6, Ly: 6.4e6,
-		F0: 1e-4, Beta: 1.6e-11, Ld: 7e5, Delta: 1,
-		Dissipation: qg.Dissipation{Kind: qg.NoDissipation},
-		Dt:          3600, Scheme: qg.RK4, MaxCFL: 1, Workers: 1,
-	}
-	bc := block.Config{Shape: block.ModonShape, Mode: qg.Free, Modon: block.Modon{
-		X: 3.2e6, Y: 3.2e6, Radius: 1e6, Speed: 4, Polarity: block.LowPoleward,
-	}}
-	b, err := bc.Block(cfg)
-	if err != nil {
-		t.Fatal(err)
-	}
-	m, err := qg.NewModel(cfg)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := m.SetBlock(b); err != nil {
-		t.Fatal(err)
-	}
+	mo := block.Modon{X: 3.2e6, Y: 3.2e6, Radius: 1e6, Speed: 4, Polarity: block.LowPoleward}
+	m, psi0 := runModon(t, mo)
 	g := m.Grid()
-	psi0 := append([]complex128(nil), m.SpectralStreamfunction()[0]...)
-	c, a := bc.Modon.Speed, bc.Modon.Radius
-	steps := int(math.Round(3 * a / c / cfg.Dt)) // three radii
-	if err := m.Run(steps); err != nil {
-		t.Fatal(err)
-	}
+	c, a := mo.Speed, mo.Radius
 	T := m.Time()
 	psi := m.SpectralStreamfunction()
 	sx, sy, corr := track(g, psi[0], psi0, c*T, 0, 2*g.Dx)
 	speed := sx / T
 	t.Logf("modon after %d steps (%.3g days): shift (%.1f, %.1f) km, speed %.4f m/s (c = %g, error %.2f %%), pattern correlation %.5f",
-		steps, T/86400, sx/1e3, sy/1e3, speed, c, 100*(speed-c)/c, corr)
+		m.Steps(), T/86400, sx/1e3, sy/1e3, speed, c, 100*(speed-c)/c, corr)
 	// Barotropic: the two layers stay equal.
 	var d, n float64
 	for p := range psi[0] {
@@ -123,32 +100,8 @@ func TestModonTravelsEast(t *testing.T) {
 // eastward translation at c with the shape kept. This guards the tracking
 // above against passing by construction.
 func TestBlockPolarityModonDoesNotTravelEast(t *testing.T) {
-	cfg := qg.Config{
-		Nx: 128, Ny: 64, Lx: 12.8e6, Ly: 6.4e6,
-		F0: 1e-4, Beta: 1.6e-11, Ld: 7e5, Delta: 1,
-		Dissipation: qg.Dissipation{Kind: qg.NoDissipation},
-		Dt:          3600, Scheme: qg.RK4, MaxCFL: 1, Workers: 1,
-	}
-	bc := block.Config{Shape: block.ModonShape, Mode: qg.Free, Modon: block.Modon{
-		X: 6.4e6, Y: 3.2e6, Radius: 1e6, Speed: 4, Polarity: block.HighPoleward,
-	}}
-	b, err := bc.Block(cfg)
-	if err != nil {
-		t.Fatal(err)
-	}
-	m, err := qg.NewModel(cfg)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := m.SetBlock(b); err != nil {
-		t.Fatal(err)
-	}
+	m, psi0 := runModon(t, block.Modon{X: 6.4e6, Y: 3.2e6, Radius: 1e6, Speed: 4, Polarity: block.HighPoleward})
 	g := m.Grid()
-	psi0 := append([]complex128(nil), m.SpectralStreamfunction()[0]...)
-	steps := int(math.Round(3 * 1e6 / 4 / cfg.Dt))
-	if err := m.Run(steps); err != nil {
-		t.Fatal(err)
-	}
 	T := m.Time()
 	// Search for the best match anywhere along x.
 	best, bx := math.Inf(-1), 0.0
@@ -163,4 +116,35 @@ func TestBlockPolarityModonDoesNotTravelEast(t *testing.T) {
 	if math.Abs(sx/T-4)/4 <= 0.02 && corr > 0.99 {
 		t.Errorf("the mirrored modon travelled east at c with its shape kept; the check cannot discriminate")
 	}
+}
+
+// runModon sets modon mo as a free block in a barotropic fluid at rest on
+// the β-plane (U1 = U2 = 0, no drag, no dissipation; 128 × 64), runs the
+// model for the time the modon needs to travel three radii at its speed,
+// and returns the model and the initial upper-layer streamfunction.
+func runModon(t *testing.T, mo block.Modon) (*qg.Model, []complex128) {
+	t.Helper()
+	cfg := qg.Config{
+		Nx: 128, Ny: 64, Lx: 12.8e6, Ly: 6.4e6,
+		F0: 1e-4, Beta: 1.6e-11, Ld: 7e5, Delta: 1,
+		Dissipation: qg.Dissipation{Kind: qg.NoDissipation},
+		Dt:          3600, Scheme: qg.RK4, MaxCFL: 1, Workers: 1,
+	}
+	bc := block.Config{Shape: block.ModonShape, Mode: qg.Free, Modon: mo}
+	b, err := bc.Block(cfg)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m, err := qg.NewModel(cfg)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := m.SetBlock(b); err != nil {
+		t.Fatal(err)
+	}
+	psi0 := append([]complex128(nil), m.SpectralStreamfunction()[0]...)
+	if err := m.Run(int(math.Round(3 * mo.Radius / mo.Speed / cfg.Dt))); err != nil {
+		t.Fatal(err)
+	}
+	return m, psi0
 }
