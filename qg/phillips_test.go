@@ -128,14 +128,7 @@ func TestPhillipsGrowthRateEqualLayers(t *testing.T) {
 		return k * imag(chkPhillipsC(cfg.Beta, f, k*k+l*l, um, us))
 	}
 	// Fastest-growing retained mode of the grid.
-	bi, bj, smax := 0, 0, 0.0
-	for i := 1; i <= 10; i++ {
-		for j := -5; j <= 5; j++ {
-			if s := sigma(i, j); s > smax {
-				bi, bj, smax = i, j, s
-			}
-		}
-	}
+	bi, bj, smax := fastestMode(sigma)
 	if smax <= 0 {
 		t.Fatal("setup: no unstable mode")
 	}
@@ -225,14 +218,7 @@ func TestPhillipsGrowthRateUnequalLayers(t *testing.T) {
 			k, l := chkWavenumber(g, i, j)
 			return k * chkMaxImag(chkEigenC(t, cfg.Beta, cfg.Ld, tc.delta, cfg.U1, cfg.U2, k*k+l*l))
 		}
-		bi, bj, smax := 0, 0, 0.0
-		for i := 1; i <= 10; i++ {
-			for j := -5; j <= 5; j++ {
-				if s := sigma(i, j); s > smax {
-					bi, bj, smax = i, j, s
-				}
-			}
-		}
+		bi, bj, smax := fastestMode(sigma)
 		if smax <= 0 {
 			t.Fatalf("δ = %g: setup: no unstable mode", tc.delta)
 		}
@@ -262,4 +248,17 @@ func TestPhillipsGrowthRateUnequalLayers(t *testing.T) {
 			}
 		}
 	}
+}
+
+// fastestMode returns the mode (i, j), 1 ≤ i ≤ 10, |j| ≤ 5, of largest
+// growth rate sigma(i, j) > 0, and that rate (0 if no mode grows).
+func fastestMode(sigma func(i, j int) float64) (bi, bj int, smax float64) {
+	for i := 1; i <= 10; i++ {
+		for j := -5; j <= 5; j++ {
+			if s := sigma(i, j); s > smax {
+				bi, bj, smax = i, j, s
+			}
+		}
+	}
+	return bi, bj, smax
 }
