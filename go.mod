@@ -1,4 +1,4 @@
-module eddyblock
+module github.com/eddyblock/eddyblock
 
 go 1.26
 

@@ -11,10 +11,10 @@ import (
 
 	"github.com/BurntSushi/toml"
 
-	"eddyblock/qg"
-	"eddyblock/qg/block"
-	"eddyblock/qg/diag"
-	"eddyblock/wavemaker"
+	"github.com/eddyblock/eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg/block"
+	"github.com/eddyblock/eddyblock/qg/diag"
+	"github.com/eddyblock/eddyblock/wavemaker"
 )
 
 // Config is a whole experiment.

@@ -6,7 +6,7 @@ import (
 	"strings"
 	"testing"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // TestDefaultRoundTrip checks that the built-in experiments are valid, that

@@ -3,10 +3,10 @@ package experiment
 import (
 	"fmt"
 
-	"eddyblock/qg"
-	"eddyblock/qg/block"
-	"eddyblock/qg/diag"
-	"eddyblock/wavemaker"
+	"github.com/eddyblock/eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg/block"
+	"github.com/eddyblock/eddyblock/qg/diag"
+	"github.com/eddyblock/eddyblock/wavemaker"
 )
 
 // Default returns the built-in experiment, an invented mid-latitude

@@ -7,9 +7,9 @@ import (
 	"fmt"
 	"math"
 
-	"eddyblock/qg"
-	"eddyblock/qg/diag"
-	"eddyblock/wavemaker"
+	"github.com/eddyblock/eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg/diag"
+	"github.com/eddyblock/eddyblock/wavemaker"
 )
 
 // Experiment is a configured model with its block, its wave source and its

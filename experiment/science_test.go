@@ -5,10 +5,10 @@ import (
 	"math"
 	"testing"
 
-	"eddyblock/qg"
-	"eddyblock/qg/diag"
-	"eddyblock/qg/fft"
-	"eddyblock/wavemaker"
+	"github.com/eddyblock/eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg/diag"
+	"github.com/eddyblock/eddyblock/qg/fft"
+	"github.com/eddyblock/eddyblock/wavemaker"
 )
 
 // runExperiment runs c to its end and returns the summary.

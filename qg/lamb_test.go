@@ -4,7 +4,7 @@ import (
 	"math"
 	"testing"
 
-	"eddyblock/qg/fft"
+	"github.com/eddyblock/eddyblock/qg/fft"
 )
 
 // Lamb–Chaplygin dipole.

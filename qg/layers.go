@@ -3,7 +3,7 @@ package qg
 import (
 	"runtime"
 
-	"eddyblock/qg/fft"
+	"github.com/eddyblock/eddyblock/qg/fft"
 )
 
 // layerWork holds the work buffers of one layer's part of a step, so that

@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"math"
 
-	"eddyblock/qg/fft"
+	"github.com/eddyblock/eddyblock/qg/fft"
 )
 
 // A Forcing is a deterministic PV tendency, evaluated at every stage of the

@@ -5,7 +5,7 @@ import (
 	"math/rand/v2"
 	"testing"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // modeDipole returns a barotropic-plus-baroclinic Gaussian dipole on the

@@ -4,7 +4,7 @@ import (
 	"math"
 	"testing"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // spongePacket returns a small-amplitude wave packet in the upper-layer

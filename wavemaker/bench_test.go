@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"testing"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // BenchmarkIncrement measures one step of the noise (the normal deviates,

@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"math"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // Kind selects what the wavemaker does.

@@ -6,7 +6,7 @@ import (
 	"strings"
 	"testing"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // TestValidate checks that each bad value is refused with an error naming

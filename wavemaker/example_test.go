@@ -4,8 +4,8 @@ import (
 	"fmt"
 	"log"
 
-	"eddyblock/qg"
-	"eddyblock/wavemaker"
+	"github.com/eddyblock/eddyblock/qg"
+	"github.com/eddyblock/eddyblock/wavemaker"
 )
 
 // Example forces a model with white noise on an upstream patch and

@@ -4,7 +4,7 @@ import (
 	"math"
 	"testing"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // testModelConfig is a small, calm model: 32 × 32 on an 8000 km square, no

@@ -7,8 +7,8 @@ import (
 	"math"
 	"math/rand/v2"
 
-	"eddyblock/qg"
-	"eddyblock/qg/fft"
+	"github.com/eddyblock/eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg/fft"
 )
 
 // pcgStream is the second word of the PCG state; the Config's seed is the

@@ -6,7 +6,7 @@ import (
 	"math/cmplx"
 	"testing"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // TestEnergyKernelClosedForm checks the energy kernel computed through the

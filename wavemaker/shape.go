@@ -3,7 +3,7 @@ package wavemaker
 import (
 	"math"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // maskField returns the gridded mask m(x, y) (Ny rows of Nx points), the sum

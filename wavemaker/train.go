@@ -4,8 +4,8 @@ import (
 	"fmt"
 	"math"
 
-	"eddyblock/qg"
-	"eddyblock/qg/fft"
+	"github.com/eddyblock/eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg/fft"
 )
 
 // Train is a deterministic localised wave train (a qg.Forcing): the PV

@@ -5,7 +5,7 @@ import (
 	"math/cmplx"
 	"testing"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // trainModel is a 64 × 64 grid on a 16 000 km × 8000 km domain (grid

@@ -1,6 +1,6 @@
 package wavemaker
 
-import "eddyblock/qg"
+import "github.com/eddyblock/eddyblock/qg"
 
 // Maker is what New returns: a wavemaker ready to be attached to the model
 // it was built for. *Noise (a qg.Source), *Train (a qg.Forcing) and the

@@ -26,8 +26,8 @@ import (
 	"path/filepath"
 	"time"
 
-	"eddyblock/experiment"
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/experiment"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 func main() {

@@ -9,8 +9,8 @@ import (
 	"strings"
 	"testing"
 
-	"eddyblock/experiment"
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/experiment"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // TestCommands runs the program's commands on a short, coarse experiment.

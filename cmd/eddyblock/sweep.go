@@ -13,7 +13,7 @@ import (
 	"strings"
 	"sync"
 
-	"eddyblock/experiment"
+	"github.com/eddyblock/eddyblock/experiment"
 )
 
 // sweepMember is one run of a sweep: the value of the swept key and its

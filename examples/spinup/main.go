@@ -12,7 +12,7 @@ import (
 	"log"
 	"math/rand/v2"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 func main() {

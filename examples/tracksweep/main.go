@@ -16,9 +16,9 @@ import (
 	"runtime"
 	"sync"
 
-	"eddyblock/experiment"
-	"eddyblock/qg/diag"
-	"eddyblock/wavemaker"
+	"github.com/eddyblock/eddyblock/experiment"
+	"github.com/eddyblock/eddyblock/qg/diag"
+	"github.com/eddyblock/eddyblock/wavemaker"
 )
 
 func main() {

@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"math"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // Shape names a block shape.

@@ -5,7 +5,7 @@ import (
 	"math"
 	"testing"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 func testConfig() qg.Config {

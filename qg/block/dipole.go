@@ -3,7 +3,7 @@ package block
 import (
 	"math"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // Dipole is a block made of two Gaussian vortices on a meridian: a high

@@ -4,8 +4,8 @@ import (
 	"fmt"
 	"log"
 
-	"eddyblock/qg"
-	"eddyblock/qg/block"
+	"github.com/eddyblock/eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg/block"
 )
 
 // A dipole block of 200 m held by the forced mode in the default westerlies.

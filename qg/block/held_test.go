@@ -5,8 +5,8 @@ import (
 	"math"
 	"testing"
 
-	"eddyblock/qg"
-	"eddyblock/qg/block"
+	"github.com/eddyblock/eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg/block"
 )
 
 // A modon-shaped block with the orientation of a block (high poleward),

@@ -5,8 +5,8 @@ import (
 	"math/cmplx"
 	"testing"
 
-	"eddyblock/qg"
-	"eddyblock/qg/block"
+	"github.com/eddyblock/eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg/block"
 )
 
 // shiftCorrelation returns the domain mean of a·b(x − sx, y − sy) for

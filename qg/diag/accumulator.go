@@ -4,8 +4,8 @@ import (
 	"fmt"
 	"math"
 
-	"eddyblock/qg"
-	"eddyblock/qg/fft"
+	"github.com/eddyblock/eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg/fft"
 )
 
 // Norm names the inner product of the projections on the block.

@@ -1,7 +1,7 @@
 package diag
 
 import (
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // eddyMoments holds the gridded eddy second moments of one layer, m s⁻¹

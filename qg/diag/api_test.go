@@ -6,7 +6,7 @@ import (
 	"strings"
 	"testing"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // Bad options and out-of-order samples get errors naming the problem.

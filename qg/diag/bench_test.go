@@ -5,8 +5,8 @@ import (
 	"math/rand/v2"
 	"testing"
 
-	"eddyblock/qg"
-	"eddyblock/qg/fft"
+	"github.com/eddyblock/eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg/fft"
 )
 
 // benchSetup returns an n × n model with a fixed block and random eddies,

@@ -4,7 +4,7 @@ import (
 	"math"
 	"testing"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // The time mean of the model's PV equation is exact over the samples:

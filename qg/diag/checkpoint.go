@@ -5,7 +5,7 @@ import (
 	"encoding/gob"
 	"fmt"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // accVersion is the version of the encoding of an Accumulator's state.

@@ -7,8 +7,8 @@ import (
 	"strings"
 	"testing"
 
-	"eddyblock/qg"
-	"eddyblock/qg/fft"
+	"github.com/eddyblock/eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg/fft"
 )
 
 // An accumulator restored from the state of another one, mid-run, goes on

@@ -5,8 +5,8 @@ import (
 	"log"
 	"math"
 
-	"eddyblock/qg"
-	"eddyblock/qg/diag"
+	"github.com/eddyblock/eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg/diag"
 )
 
 // An upper-layer wave source upstream of a block held by the forced mode;

@@ -3,7 +3,7 @@ package diag
 import (
 	"fmt"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // Field is a named gridded field: Ny rows of Nx points, x fastest.

@@ -4,8 +4,8 @@ import (
 	"math"
 	"testing"
 
-	"eddyblock/qg"
-	"eddyblock/qg/fft"
+	"github.com/eddyblock/eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg/fft"
 )
 
 // In the fixed mode the eddies are the model's state itself (DESIGN §6):

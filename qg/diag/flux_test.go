@@ -4,7 +4,7 @@ import (
 	"math"
 	"testing"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // sampleWave feeds the accumulator nph states of the wave

@@ -3,7 +3,7 @@ package diag
 import (
 	"math"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 const day = 86400.0

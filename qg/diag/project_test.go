@@ -4,8 +4,8 @@ import (
 	"math"
 	"testing"
 
-	"eddyblock/qg"
-	"eddyblock/qg/fft"
+	"github.com/eddyblock/eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg/fft"
 )
 
 func tstSpectral(plan *fft.Plan2D, g *qg.Grid, f [2][]float64) [2][]complex128 {

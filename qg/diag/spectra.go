@@ -3,7 +3,7 @@ package diag
 import (
 	"math"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // Spectra are isotropic energy spectra: energy per unit total wavenumber

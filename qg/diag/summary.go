@@ -5,7 +5,7 @@ import (
 	"math"
 	"strings"
 
-	"eddyblock/qg"
+	"github.com/eddyblock/eddyblock/qg"
 )
 
 // Summary holds the one-number answers of a run over the averaging window.

@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"math"
 
-	"eddyblock/qg/fft"
+	"github.com/eddyblock/eddyblock/qg/fft"
 )
 
 // The wave cos(2π(3x/nx + y/ny)) on a 16×8 grid has the two coefficients nx·ny/2 at (i, j) = (3, 1) and
