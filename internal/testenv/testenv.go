@@ -1,0 +1,52 @@
+package testenv
+
+import (
+	"os"
+	"os/exec"
+	"testing"
+)
+
+// FullVar is the environment variable that asks for the complete suite.
+const FullVar = "EDDYBLOCK_FULL_TESTS"
+
+// Full reports whether the complete suite was asked for.
+func Full() bool { return os.Getenv(FullVar) == "1" }
+
+// Long skips t unless the complete suite was asked for. Use it for tests
+// that take more than a few seconds on a 2-core machine.
+func Long(t testing.TB) {
+	t.Helper()
+	if !Full() {
+		t.Skipf("long test: set %s=1 (scripts/test-all does) to run it", FullVar)
+	}
+}
+
+// Tool returns the path of the external program name. When it is missing
+// the test fails if the complete suite was asked for, and is skipped with
+// a loud message otherwise; hint says how to install it.
+func Tool(t testing.TB, name, hint string) string {
+	t.Helper()
+	p, err := exec.LookPath(name)
+	if err == nil {
+		return p
+	}
+	if Full() {
+		t.Fatalf("MISSING TOOL: %s is not installed (%s); the complete suite requires it", name, hint)
+	}
+	t.Skipf("MISSING TOOL: %s is not installed (%s); skipped (with %s=1 this fails)", name, hint, FullVar)
+	return ""
+}
+
+// File is Tool for a program at a fixed path (for example /usr/bin/python3,
+// Debian's Python, which has Debian's Python packages).
+func File(t testing.TB, path, hint string) string {
+	t.Helper()
+	if st, err := os.Stat(path); err == nil && !st.IsDir() {
+		return path
+	}
+	if Full() {
+		t.Fatalf("MISSING TOOL: %s does not exist (%s); the complete suite requires it", path, hint)
+	}
+	t.Skipf("MISSING TOOL: %s does not exist (%s); skipped (with %s=1 this fails)", path, hint, FullVar)
+	return ""
+}
