@@ -416,13 +416,13 @@ func (d *decoder) header() (*File, error) {
 		switch {
 		case v.begin < hdrEnd:
 			return nil, d.fail(varOff[i], "variable %q: data begins at offset %d, inside the header (which ends at %d)", v.name, v.begin, hdrEnd)
-		case !v.rec && v.size > d.size-v.begin:
+		case !v.rec && (v.begin > d.size || v.size > d.size-v.begin):
 			return nil, d.fail(varOff[i], "variable %q: data [%d, %d) extends past the end of the file (%d bytes)", v.name, v.begin, v.begin+v.size, d.size)
 		}
 	}
 	// The records each record variable has room for in the file.
 	complete := func(v *varLayout) int64 {
-		if v.size > d.size-v.begin {
+		if v.begin > d.size || v.size > d.size-v.begin {
 			return 0
 		}
 		return (d.size-v.begin-v.size)/l.recsize + 1
@@ -517,8 +517,8 @@ func (d *decoder) variable(f *File, i int) error {
 	} else if begin, err = d.u64(what + " begin"); err != nil {
 		return err
 	}
-	if begin > uint64(d.size) {
-		return d.fail(beginOff, "%s: data begins at offset %d, past the end of the file (%d bytes)", what, begin, d.size)
+	if begin > sizeCap {
+		return d.fail(beginOff, "%s: data begins at offset %d, beyond the largest supported file", what, begin)
 	}
 	vl.typ = v.Type
 	vl.count = size
