@@ -120,3 +120,52 @@ func frac(a, b, level float64) float64 {
 	}
 	return (level - a) / (b - a)
 }
+
+// Chain joins segments into polylines wherever an end of one is exactly an
+// end of another (as the segments of neighbouring cells from Contour are),
+// so that a contour can be drawn as connected lines, dashed or smoothed. A
+// closed contour comes back to its first point. The order of the polylines
+// follows the order of their first segments in segs.
+func Chain(segs []Segment) [][]Point {
+	ends := make(map[Point][]int, 2*len(segs))
+	for k, s := range segs {
+		ends[s.A] = append(ends[s.A], k)
+		ends[s.B] = append(ends[s.B], k)
+	}
+	used := make([]bool, len(segs))
+	// next returns an unused segment touching p, and its other end.
+	next := func(p Point) (Point, bool) {
+		for _, k := range ends[p] {
+			if used[k] {
+				continue
+			}
+			used[k] = true
+			if segs[k].A == p {
+				return segs[k].B, true
+			}
+			return segs[k].A, true
+		}
+		return Point{}, false
+	}
+	var lines [][]Point
+	for k, s := range segs {
+		if used[k] {
+			continue
+		}
+		used[k] = true
+		fwd := []Point{s.A, s.B}
+		for p, ok := next(s.B); ok; p, ok = next(p) {
+			fwd = append(fwd, p)
+		}
+		var back []Point
+		for p, ok := next(s.A); ok; p, ok = next(p) {
+			back = append(back, p)
+		}
+		line := make([]Point, 0, len(back)+len(fwd))
+		for i := len(back) - 1; i >= 0; i-- {
+			line = append(line, back[i])
+		}
+		lines = append(lines, append(line, fwd...))
+	}
+	return lines
+}

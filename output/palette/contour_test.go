@@ -177,3 +177,34 @@ func TestContourNaNAndErrors(t *testing.T) {
 		t.Errorf("infinite level: %v", err)
 	}
 }
+
+func TestChain(t *testing.T) {
+	// The circle contour chains into one closed polyline through all the
+	// segments' ends, of the same total length.
+	const n, c, r = 40, 19.6, 11.0
+	g := sample(n, n, func(x, y float64) float64 { return (x-c)*(x-c) + (y-c)*(y-c) })
+	segs, _ := Contour(nil, g, r*r, false)
+	lines := Chain(segs)
+	if len(lines) != 1 {
+		t.Fatalf("%d polylines, want 1", len(lines))
+	}
+	l := lines[0]
+	if len(l) != len(segs)+1 || l[0] != l[len(l)-1] {
+		t.Errorf("polyline of %d points for %d segments, closed %v", len(l), len(segs), l[0] == l[len(l)-1])
+	}
+	length := 0.0
+	for i := 1; i < len(l); i++ {
+		length += math.Hypot(l[i].X-l[i-1].X, l[i].Y-l[i-1].Y)
+	}
+	if math.Abs(length-totalLength(segs)) > 1e-9 {
+		t.Errorf("chained length %g, segments %g", length, totalLength(segs))
+	}
+	// Two separate open lines (x = 3.3 and x = 6.6 in a ramp field that
+	// falls again), each made of several segments.
+	g = sample(10, 6, func(x, y float64) float64 { return 5 - math.Abs(x-5) })
+	segs, _ = Contour(nil, g, 1.7, false)
+	lines = Chain(segs)
+	if len(lines) != 2 || len(lines[0]) != 6 || len(lines[1]) != 6 {
+		t.Errorf("got %d polylines %v, want two of 6 points", len(lines), lines)
+	}
+}

@@ -233,3 +233,21 @@ func TestRanges(t *testing.T) {
 		t.Errorf("Norm = %g, want 0.25", got)
 	}
 }
+
+func TestDistinct(t *testing.T) {
+	// Equal lightness (L* = 45 by design) and clearly different neighbours:
+	// consecutive colours at least 40 CIE 1976 ΔE units apart (a ΔE of a few
+	// units is already noticeable, common practice).
+	for i := range 8 {
+		c, d := Distinct(i), Distinct(i+1)
+		if L, _, _ := refLab(c); math.Abs(L-45) > 0.6 {
+			t.Errorf("Distinct(%d) L* = %.2f", i, L)
+		}
+		if e := deltaE(c, d); e < 40 {
+			t.Errorf("Distinct(%d), Distinct(%d): ΔE %.1f", i, i+1, e)
+		}
+	}
+	if Distinct(-1) != Distinct(7) || Distinct(8) != Distinct(0) {
+		t.Error("Distinct does not cycle")
+	}
+}
