@@ -10,15 +10,26 @@ func checkArgs(nx, ny, workers int) error {
 	if err := checkSize("ny", ny); err != nil {
 		return err
 	}
-	if workers < 1 {
-		return fmt.Errorf("fft: workers = %d, want >= 1", workers)
+	if workers < 1 || workers > MaxWorkers {
+		return fmt.Errorf("fft: workers = %d, want 1 <= workers <= %d", workers, MaxWorkers)
+	}
+	if nx*ny > MaxPoints {
+		return fmt.Errorf("fft: nx·ny = %d×%d = %d points, more than the %d a plan supports", nx, ny, nx*ny, MaxPoints)
 	}
 	return nil
 }
 
+// Limits of a plan. MaxSize bounds each dimension and MaxPoints the field (2²⁶ points: 512 MiB per real
+// field, 1 GiB for the plan's buffers); MaxWorkers bounds the goroutines of one plan.
+const (
+	MaxSize    = 1 << 16
+	MaxPoints  = 1 << 26
+	MaxWorkers = 256
+)
+
 func checkSize(name string, n int) error {
-	if n < 4 || n&(n-1) != 0 {
-		return fmt.Errorf("fft: %s = %d is not a power of two >= 4", name, n)
+	if n < 4 || n > MaxSize || n&(n-1) != 0 {
+		return fmt.Errorf("fft: %s = %d is not a power of two between 4 and %d", name, n, MaxSize)
 	}
 	return nil
 }

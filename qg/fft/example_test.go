@@ -45,7 +45,7 @@ func Example() {
 	// Output:
 	// c[j=1][i=3] = 64.000, |imag| < 1e-9: true
 	// round trip exact to 1e-14: true
-	// fft: nx = 48 is not a power of two >= 4
+	// fft: nx = 48 is not a power of two between 4 and 65536
 }
 
 // With the spectrum truncated by the 2/3 rule (zonal indices i with 3i < nx, here i ≤ 5 of 0..8), the

@@ -401,6 +401,9 @@ func TestBadSizes(t *testing.T) {
 		{8, 3, 1, "ny = 3"},
 		{8, 96, 1, "ny = 96"},
 		{8, 8, 0, "workers = 0"},
+		{8, 8, 1000, "workers = 1000"},
+		{4, 1 << 20, 2, "ny = 1048576"}, // once accepted, then Forward never returned
+		{1 << 14, 1 << 14, 1, "points"},
 	} {
 		_, err := NewPlan2D(tc.nx, tc.ny, tc.workers)
 		if err == nil {

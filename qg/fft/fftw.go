@@ -92,6 +92,10 @@ func (p *Plan2D) Nx() int { return p.nx }
 // Ny returns the number of grid points along y.
 func (p *Plan2D) Ny() int { return p.ny }
 
+// Close does nothing: the FFTW backend starts no goroutines. It is here so that code using either backend
+// releases a plan the same way.
+func (p *Plan2D) Close() {}
+
 // Workers returns the number of workers the plan was made for.
 func (p *Plan2D) Workers() int { return p.workers }
 

@@ -6,6 +6,8 @@ import (
 	"fmt"
 	"math"
 	"runtime"
+
+	"github.com/eddyblock/eddyblock/internal/team"
 )
 
 // Chunk sizes of the cache-blocked passes: the zonal transforms are done cy rows at a time and the
@@ -25,11 +27,11 @@ const (
 //
 // A Plan2D owns its scratch buffers and is not safe for concurrent use: give each goroutine its own plan.
 // Forward and Inverse panic if a slice has the wrong length. A plan with workers > 1 keeps workers−1
-// helper goroutines, which poll for about a millisecond after each transform and then sleep; they end
-// when the plan is garbage collected.
+// helper goroutines, which poll briefly after each transform and then sleep; Close stops them (a plan
+// that becomes unreachable without Close stops them too, later).
 type Plan2D struct {
 	*core
-	team *team // nil for one worker
+	team *team.Team // nil for one worker
 }
 
 // core holds everything the workers use.
@@ -60,7 +62,9 @@ type core struct {
 	bufs [][2][]complex128 // per-worker ping-pong buffers
 
 	// per-call arguments for the worker goroutines
-	fsrc []float64
+	phase int               // the phase being run
+	runFn func(task, k int) // p.runTask, bound once (no allocation per phase)
+	fsrc  []float64
 	fdst []complex128
 	isrc []complex128
 	idst []float64
@@ -95,15 +99,28 @@ func NewPlan2D(nx, ny, workers int) (*Plan2D, error) {
 		p.fpost = append(p.fpost, complex(0.5*cos, 0.5*sin))
 		p.ipre = append(p.ipre, complex(0.5*scale*cos, 0.5*scale*sin))
 	}
+	p.runFn = p.runTask
 	plan := &Plan2D{core: p}
 	if workers > 1 {
-		plan.team = newTeam(workers, p.task)
-		runtime.AddCleanup(plan, func(t *team) { t.shutdown() }, plan.team)
+		t, err := team.New(workers)
+		if err != nil {
+			return nil, err
+		}
+		plan.team = t
+		runtime.AddCleanup(plan, func(t *team.Team) { t.Close() }, t)
 	}
 	return plan, nil
 }
 
-// Phases of the transforms: each is a list of independent tasks (see team).
+// Close stops the plan's helper goroutines and waits for them to return. The plan must not be used
+// afterwards; calling Close again does nothing.
+func (p *Plan2D) Close() {
+	if p.team != nil {
+		p.team.Close()
+	}
+}
+
+// Phases of the transforms: each is a list of independent tasks, which any worker may take.
 const (
 	phFwdRows = iota // zonal transforms of a chunk of rows: field → mid
 	phFwdCols        // meridional transforms but the last stage, of a chunk of columns: mid → tmp
@@ -111,6 +128,9 @@ const (
 	phInvCols        // meridional inverse transforms of a chunk of columns: src → mid
 	phInvRows        // zonal inverse transforms of a chunk of rows: mid → field
 )
+
+// runTask runs task c of the current phase as worker k.
+func (p *core) runTask(c, k int) { p.task(p.phase, c, k) }
 
 // task runs task c of phase ph as worker k.
 func (p *core) task(ph, c, k int) {
@@ -198,7 +218,8 @@ func (p *Plan2D) parallel(ph int) {
 		}
 		return
 	}
-	p.team.parallel(ph, n)
+	p.phase = ph
+	p.team.Tasks(n, p.runFn)
 }
 
 // Forward computes dst[j*(nx/2+1)+i] = Σ_y Σ_x src[y*nx+x]·exp(−2πi(i·x/nx + j·y/ny)) (unnormalised).
