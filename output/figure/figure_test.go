@@ -415,3 +415,12 @@ func TestFormatNum(t *testing.T) {
 		}
 	}
 }
+
+func BenchmarkMap(b *testing.B) {
+	m := &Map{Panels: []Panel{{Field: bumpField(256, 128, 5000e3, 5000e3, 0)}}, Units: "m"}
+	for b.Loop() {
+		if _, err := m.Draw(Size{Width: 900, Height: 480}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

@@ -208,3 +208,13 @@ func TestChain(t *testing.T) {
 		t.Errorf("got %d polylines %v, want two of 6 points", len(lines), lines)
 	}
 }
+
+func BenchmarkContour(b *testing.B) {
+	g := sample(256, 128, func(x, y float64) float64 {
+		return math.Cos(2*math.Pi*x/256) + math.Sin(4*math.Pi*y/128)
+	})
+	var segs []Segment
+	for b.Loop() {
+		segs, _ = Contour(segs[:0], g, 0.3, true)
+	}
+}
