@@ -87,7 +87,7 @@ func (m *Model) SetBlock(b Block) error {
 		bs.qp[n] = m.ToGrid(bs.q[n])
 		if b.Mode == Fixed {
 			bs.u[n], bs.v[n] = make([]float64, np), make([]float64, np)
-			m.velocity(&m.lw[0], bs.u[n], bs.v[n], bs.psi[n], m.workers)
+			m.velocity(&m.lw[0], bs.u[n], bs.v[n], bs.psi[n])
 		}
 	}
 	m.blk = bs
@@ -149,23 +149,21 @@ func (m *Model) BlockMode() BlockMode {
 }
 
 // velocity sets gridded u = −∂yψ and v = ∂xψ from a spectral ψ on the
-// retained modes, with the buffers and plan of lw and the given number of
-// workers. Only the retained modes of the velocity spectra are written (the
-// others stay zero) and the plan reads only the retained columns.
-func (m *Model) velocity(lw *layerWork, u, v []float64, psi []complex128, workers int) {
+// retained modes, with the buffers and plan of lw. Only the retained modes
+// of the velocity spectra are written (the others stay zero) and the plan
+// reads only the retained columns.
+func (m *Model) velocity(lw *layerWork, u, v []float64, psi []complex128) {
 	g := m.g
-	nk, nc, rows := g.Nkx, g.KeptCols, g.KeptRows
+	nk, nc := g.Nkx, g.KeptCols
 	a, b := lw.du, lw.dv
-	forRows(workers, len(rows), func(lo, hi int) {
-		for _, j := range rows[lo:hi] {
-			aj, bj, pj := a[j*nk:j*nk+nc], b[j*nk:j*nk+nc], psi[j*nk:j*nk+nc]
-			l := g.L[j]
-			for i, z := range pj {
-				aj[i] = mulI(-l, z)
-				bj[i] = mulI(g.K[i], z)
-			}
+	for _, j := range g.KeptRows {
+		aj, bj, pj := a[j*nk:j*nk+nc], b[j*nk:j*nk+nc], psi[j*nk:j*nk+nc]
+		l := g.L[j]
+		for i, z := range pj {
+			aj[i] = mulI(-l, z)
+			bj[i] = mulI(g.K[i], z)
 		}
-	})
+	}
 	lw.plan.Inverse(u, a)
 	lw.plan.Inverse(v, b)
 }

@@ -3,6 +3,7 @@ package qg
 import (
 	"runtime"
 
+	"github.com/eddyblock/eddyblock/internal/team"
 	"github.com/eddyblock/eddyblock/qg/fft"
 )
 
@@ -58,10 +59,33 @@ func (m *Model) newLayerWork() error {
 	}
 	m.plan = m.lw[0].plan
 	if m.workers >= 2 {
-		m.pair = newPartner()
-		runtime.AddCleanup(m, func(p *partner) { p.shutdown() }, m.pair)
+		t, err := team.New(2)
+		if err != nil {
+			return err
+		}
+		m.pair = t
+		// a backstop for a model dropped without Close
+		runtime.AddCleanup(m, func(t *team.Team) { t.Close() }, t)
 	}
 	return nil
+}
+
+// Close stops the goroutines the model started (with two or more workers:
+// the one that computes layer 1, and the transforms' helpers) and waits for
+// them to return. A closed model cannot step; its state can still be read.
+// Calling Close again does nothing.
+func (m *Model) Close() {
+	if m.closed {
+		return
+	}
+	m.closed = true
+	if m.pair != nil {
+		m.pair.Close()
+	}
+	m.lw[0].plan.Close()
+	if m.lw[1].plan != m.lw[0].plan {
+		m.lw[1].plan.Close()
+	}
 }
 
 // innerWorkers is the number of workers each layer's work may use.
@@ -73,13 +97,14 @@ func (m *Model) innerWorkers() int {
 }
 
 // eachLayer runs fn for both layers: concurrently with two or more
-// workers, one after the other otherwise. fn must touch only its layer's
-// buffers; the results are the same bits either way.
+// workers (layer 0 on the caller, layer 1 on the team's other goroutine),
+// one after the other otherwise. fn must touch only its layer's buffers;
+// the results are the same bits either way.
 func (m *Model) eachLayer(fn func(n int)) {
-	if m.workers < 2 {
+	if m.pair == nil {
 		fn(0)
 		fn(1)
 		return
 	}
-	m.pair.run(fn)
+	m.pair.Run(fn)
 }

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/eddyblock/eddyblock/internal/team"
 	"github.com/eddyblock/eddyblock/qg/fft"
 )
 
@@ -34,7 +35,8 @@ type Model struct {
 	inv     *Inverter
 	plan    *fft.Plan2D
 	workers int
-	pair    *partner // runs layer 1's part of each layer pass when workers >= 2
+	pair    *team.Team // runs the two layers' passes concurrently when workers >= 2
+	closed  bool
 
 	t     float64
 	steps int

@@ -37,21 +37,19 @@ func (m *Model) spongeLayer(n int) {
 	target := m.blk != nil && (m.blk.mode == Forced || m.blk.mode == Relaxed)
 	qp, plan := m.qp[n], m.lw[n].plan
 	plan.Inverse(qp, m.q[n])
-	forRows(m.innerWorkers(), g.Ny, func(lo, hi int) {
-		for y := lo; y < hi; y++ {
-			row := qp[y*nx : (y+1)*nx]
-			if target {
-				qb := m.blk.qp[n][y*nx : (y+1)*nx]
-				for x, f := range m.sponge {
-					row[x] = qb[x] + f*(row[x]-qb[x])
-				}
-			} else {
-				for x, f := range m.sponge {
-					row[x] *= f
-				}
+	for y := range g.Ny {
+		row := qp[y*nx : (y+1)*nx]
+		if target {
+			qb := m.blk.qp[n][y*nx : (y+1)*nx]
+			for x, f := range m.sponge {
+				row[x] = qb[x] + f*(row[x]-qb[x])
+			}
+		} else {
+			for x, f := range m.sponge {
+				row[x] *= f
 			}
 		}
-	})
+	}
 	plan.Forward(m.q[n], qp)
 	for p, keep := range g.Keep {
 		if keep == 0 {

@@ -1,6 +1,7 @@
 package qg
 
 import (
+	"errors"
 	"fmt"
 	"math"
 )
@@ -23,6 +24,9 @@ func (e *StepError) Error() string {
 // energy ledger are restored to what they were before the step, and a
 // *StepError names the time and the field.
 func (m *Model) Step() error {
+	if m.closed {
+		return errors.New("qg: Step on a closed model")
+	}
 	for n := range 2 {
 		copy(m.prev[n], m.q[n])
 	}

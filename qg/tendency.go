@@ -23,7 +23,6 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 	if m.blk != nil && m.blk.force[0] != nil {
 		force = m.blk.force
 	}
-	inner := m.innerWorkers()
 	first := m.stage
 	idx, idy := 1/g.Dx, 1/g.Dy
 	// The forcings do not depend on the state: evaluate them first, so that
@@ -48,39 +47,37 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 		for j := range lw.rowRates {
 			lw.rowRates[j] = [NumTerms]float64{}
 		}
-		m.velocity(lw, m.u[n], m.v[n], psi[n], inner)
+		m.velocity(lw, m.u[n], m.v[n], psi[n])
 		lw.plan.Inverse(m.qp[n], q[n])
 		u, v, qg, fu, fv := m.u[n], m.v[n], m.qp[n], lw.fu, lw.fv
 		U := m.ph.U1
 		if n == 1 {
 			U = m.ph.U2
 		}
-		forRows(inner, g.Ny, func(lo, hi int) {
-			for y := lo; y < hi; y++ {
-				r := y * nx
-				uu, vv, qq := u[r:r+nx], v[r:r+nx], qg[r:r+nx]
-				var ub, vb, qb []float64
-				if fixed {
-					ub, vb, qb = m.blk.u[n][r:r+nx], m.blk.v[n][r:r+nx], m.blk.qp[n][r:r+nx]
-				}
-				m.fluxRow(fu[r:r+nx], fv[r:r+nx], uu, vv, qq, ub, vb, qb)
-				if !first {
-					continue
-				}
-				var cmax, cu, cv float64
-				for x := range uu {
-					ut, vt := uu[x]+U, vv[x]
-					if fixed {
-						ut, vt = ut+ub[x], vt+vb[x]
-					}
-					if c := math.Abs(ut)*idx + math.Abs(vt)*idy; c > cmax || c != c {
-						cmax, cu, cv = c, ut, vt
-					}
-				}
-				lw.rowCFL[y] = cmax
-				lw.rowCFLAt[y] = [3]float64{float64(n + 1), cu, cv}
+		for y := range g.Ny {
+			r := y * nx
+			uu, vv, qq := u[r:r+nx], v[r:r+nx], qg[r:r+nx]
+			var ub, vb, qb []float64
+			if fixed {
+				ub, vb, qb = m.blk.u[n][r:r+nx], m.blk.v[n][r:r+nx], m.blk.qp[n][r:r+nx]
 			}
-		})
+			m.fluxRow(fu[r:r+nx], fv[r:r+nx], uu, vv, qq, ub, vb, qb)
+			if !first {
+				continue
+			}
+			var cmax, cu, cv float64
+			for x := range uu {
+				ut, vt := uu[x]+U, vv[x]
+				if fixed {
+					ut, vt = ut+ub[x], vt+vb[x]
+				}
+				if c := math.Abs(ut)*idx + math.Abs(vt)*idy; c > cmax || c != c {
+					cmax, cu, cv = c, ut, vt
+				}
+			}
+			lw.rowCFL[y] = cmax
+			lw.rowCFLAt[y] = [3]float64{float64(n + 1), cu, cv}
+		}
 		fuh, fvh := lw.a, lw.b
 		lw.plan.Forward(fuh, fu)
 		lw.plan.Forward(fvh, fv)
@@ -103,60 +100,58 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 			fn = force[n]
 		}
 		hyper := m.hyper
-		forRows(inner, len(rows), func(lo, hi int) {
-			for _, j := range rows[lo:hi] {
-				l := g.L[j]
-				var rAdv, rShear, rDrag, rHyp, rRel, rG, rF float64
-				for i := range nc {
-					p := j*nk + i
-					keep := g.Keep[p]
-					if keep == 0 {
-						dn[p] = 0
-						continue
-					}
-					k := g.K[i]
-					ps, qq := pn[p], qn[p]
-					adv := -(mulI(k, fuh[p]) + mulI(l, fvh[p]))
-					shear := -(mulI(k*U, qq) + mulI(k*qy, ps))
-					tot := adv + shear
-					wp := g.Weight[p]
-					rAdv += wp * dot(ps, adv)
-					rShear += wp * dot(ps, shear)
-					if drag != 0 {
-						d := scale(drag*g.K2[p], ps)
-						tot += d
-						rDrag += wp * dot(ps, d)
-					}
-					if hyper != nil {
-						h := scale(-hyper[p], qq)
-						tot += h
-						rHyp += wp * dot(ps, h)
-					}
-					if qb != nil {
-						rl := scale(-1/m.blk.tau, qq-qb[p])
-						tot += rl
-						rRel += wp * dot(ps, rl)
-					}
-					if fn != nil {
-						tot += fn[p]
-						rG += wp * dot(ps, fn[p])
-					}
-					if xn != nil {
-						tot += xn[p]
-						rF += wp * dot(ps, xn[p])
-					}
-					dn[p] = tot
+		for _, j := range rows {
+			l := g.L[j]
+			var rAdv, rShear, rDrag, rHyp, rRel, rG, rF float64
+			for i := range nc {
+				p := j*nk + i
+				keep := g.Keep[p]
+				if keep == 0 {
+					dn[p] = 0
+					continue
 				}
-				rr := &lw.rowRates[j]
-				rr[TermAdvection] = -w * rAdv
-				rr[TermShear] = -w * rShear
-				rr[TermDrag] = -w * rDrag
-				rr[TermHyperviscosity] = -w * rHyp
-				rr[TermRelaxation] = -w * rRel
-				rr[TermBlockForcing] = -w * rG
-				rr[TermForcing] = -w * rF
+				k := g.K[i]
+				ps, qq := pn[p], qn[p]
+				adv := -(mulI(k, fuh[p]) + mulI(l, fvh[p]))
+				shear := -(mulI(k*U, qq) + mulI(k*qy, ps))
+				tot := adv + shear
+				wp := g.Weight[p]
+				rAdv += wp * dot(ps, adv)
+				rShear += wp * dot(ps, shear)
+				if drag != 0 {
+					d := scale(drag*g.K2[p], ps)
+					tot += d
+					rDrag += wp * dot(ps, d)
+				}
+				if hyper != nil {
+					h := scale(-hyper[p], qq)
+					tot += h
+					rHyp += wp * dot(ps, h)
+				}
+				if qb != nil {
+					rl := scale(-1/m.blk.tau, qq-qb[p])
+					tot += rl
+					rRel += wp * dot(ps, rl)
+				}
+				if fn != nil {
+					tot += fn[p]
+					rG += wp * dot(ps, fn[p])
+				}
+				if xn != nil {
+					tot += xn[p]
+					rF += wp * dot(ps, xn[p])
+				}
+				dn[p] = tot
 			}
-		})
+			rr := &lw.rowRates[j]
+			rr[TermAdvection] = -w * rAdv
+			rr[TermShear] = -w * rShear
+			rr[TermDrag] = -w * rDrag
+			rr[TermHyperviscosity] = -w * rHyp
+			rr[TermRelaxation] = -w * rRel
+			rr[TermBlockForcing] = -w * rG
+			rr[TermForcing] = -w * rF
+		}
 		if first {
 			lw.cfl, lw.cflAt = 0, [3]float64{}
 			for y, c := range lw.rowCFL {

@@ -137,7 +137,7 @@ func (m *Model) advection(dst []complex128, n int, psi, q []complex128) {
 	g := m.g
 	lw := &m.lw[0]
 	u, v, qg, fu, fv := m.u[n], m.v[n], m.qp[n], lw.fu, lw.fv
-	m.velocity(lw, u, v, psi, m.workers)
+	m.velocity(lw, u, v, psi)
 	m.plan.Inverse(qg, q)
 	b := m.blk
 	nx := g.Nx

@@ -2,6 +2,11 @@ package qg
 
 import (
 	"math"
+	"runtime"
+	"slices"
+	"strings"
+	"sync"
+	"sync/atomic"
 	"testing"
 )
 
@@ -37,5 +42,105 @@ func TestWorkersBitIdentical(t *testing.T) {
 				}
 			}
 		}
+	}
+}
+
+// busy keeps n goroutines spinning until the returned function is called,
+// so that the model's goroutines compete for the threads. They yield every
+// microsecond or so: the scheduler then interleaves them with the model's
+// goroutines at random points instead of handing out whole 10 ms slices,
+// which shuffles the order of events more and keeps the test short.
+func busy(n int) (stop func()) {
+	var quit atomic.Bool
+	var wg sync.WaitGroup
+	for range n {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			x := 1.0
+			for !quit.Load() {
+				for range 1000 {
+					x = x*1.0000001 + 1e-9
+				}
+				runtime.Gosched()
+			}
+			_ = x
+		}()
+	}
+	return func() { quit.Store(true); wg.Wait() }
+}
+
+// TestWorkersBitIdenticalUnderLoad repeats short runs with 2 and 3 workers
+// while the threads are scarce — one thread for all goroutines, or two
+// threads shared with busy goroutines — and compares each final state and
+// energy ledger bit for bit with a one-worker run (which has no concurrency
+// at all). A hand-off that let a pass begin before the previous one ended,
+// or let the caller go on before the partner finished, changes the bits
+// (the design notes' reproducibility requirement).
+func TestWorkersBitIdenticalUnderLoad(t *testing.T) {
+	const steps = 30
+	type result struct {
+		q      [2][]complex128
+		ledger Ledger
+	}
+	runOnce := func(scheme Scheme, workers int) result {
+		m := benchModel(t, 32, workers, scheme)
+		defer m.Close()
+		if err := m.Run(steps); err != nil {
+			t.Fatal(err)
+		}
+		q := m.SpectralPV()
+		return result{[2][]complex128{slices.Clone(q[0]), slices.Clone(q[1])}, m.Ledger()}
+	}
+	runs := 0
+	for _, scheme := range []Scheme{RK4, AB3} {
+		ref := runOnce(scheme, 1)
+		for _, procs := range []int{1, 2} {
+			prev := runtime.GOMAXPROCS(procs)
+			stop := func() {}
+			if procs > 1 {
+				stop = busy(2)
+			}
+			for _, workers := range []int{2, 3} {
+				for rep := range 8 {
+					got := runOnce(scheme, workers)
+					runs++
+					if got.ledger != ref.ledger {
+						t.Errorf("%s, GOMAXPROCS=%d, %d workers, run %d: energy ledger differs from one worker's", scheme, procs, workers, rep)
+					}
+					for n := range 2 {
+						for p := range got.q[n] {
+							if math.Float64bits(real(got.q[n][p])) != math.Float64bits(real(ref.q[n][p])) ||
+								math.Float64bits(imag(got.q[n][p])) != math.Float64bits(imag(ref.q[n][p])) {
+								t.Fatalf("%s, GOMAXPROCS=%d, %d workers, run %d: layer %d point %d differs from one worker's", scheme, procs, workers, rep, n+1, p)
+							}
+						}
+					}
+				}
+			}
+			stop()
+			runtime.GOMAXPROCS(prev)
+		}
+	}
+	t.Logf("%d runs of %d steps compared bit for bit", runs, steps)
+}
+
+// TestCloseStopsGoroutines checks that a model's goroutines end with Close
+// and that a closed model refuses to step.
+func TestCloseStopsGoroutines(t *testing.T) {
+	before := runtime.NumGoroutine()
+	for _, w := range []int{1, 2, 3, 4} {
+		m := benchModel(t, 32, w, RK4)
+		if err := m.Run(2); err != nil {
+			t.Fatal(err)
+		}
+		m.Close()
+		m.Close()
+		if err := m.Step(); err == nil || !strings.Contains(err.Error(), "closed") {
+			t.Errorf("%d workers: Step after Close gave %v, want an error saying the model is closed", w, err)
+		}
+	}
+	if n := runtime.NumGoroutine(); n > before {
+		t.Errorf("%d goroutines left after Close", n-before)
 	}
 }

@@ -52,7 +52,9 @@ func NewNoise(cfg Config, m *qg.Model) (*Noise, error) {
 		return nil, err
 	}
 	g := m.Grid()
-	plan, err := fft.NewPlan2D(g.Nx, g.Ny, m.Config().Workers)
+	// One worker: the source runs on the caller between the model's steps,
+	// so it uses none of the model's goroutines and starts none of its own.
+	plan, err := fft.NewPlan2D(g.Nx, g.Ny, 1)
 	if err != nil {
 		return nil, fmt.Errorf("wavemaker: transform: %w", err)
 	}

@@ -104,7 +104,9 @@ func New(m *qg.Model, opt Options) (*Accumulator, error) {
 		return nil, fmt.Errorf("diag: option Bins = %d: must be ≥ 1", opt.Bins)
 	}
 	cfg := m.Config()
-	plan, err := fft.NewPlan2D(cfg.Nx, cfg.Ny, max(cfg.Workers, 1))
+	// One worker: the diagnostics sample between the model's steps, on the
+	// caller, so they use none of the model's goroutines and start none.
+	plan, err := fft.NewPlan2D(cfg.Nx, cfg.Ny, 1)
 	if err != nil {
 		return nil, fmt.Errorf("diag: transform: %w", err)
 	}

@@ -65,9 +65,9 @@ type core struct {
 	phase int               // the phase being run
 	runFn func(task, k int) // p.runTask, bound once (no allocation per phase)
 	fsrc  []float64
-	fdst []complex128
-	isrc []complex128
-	idst []float64
+	fdst  []complex128
+	isrc  []complex128
+	idst  []float64
 }
 
 // NewPlan2D makes a plan for nx, ny powers of two, each >= 4. workers >= 1 is the number of goroutines a
