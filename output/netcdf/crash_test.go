@@ -31,7 +31,11 @@ func (m *memFile) WriteAt(b []byte, off int64) (int, error) {
 	return len(b), nil
 }
 
-func (m *memFile) Sync() error  { return nil }
+// Sync logs a write of no bytes at offset -1.
+func (m *memFile) Sync() error {
+	m.log = append(m.log, writeOp{off: -1})
+	return nil
+}
 func (m *memFile) Close() error { return nil }
 
 // replay returns the file after the first k writes of log and the first
@@ -45,9 +49,11 @@ func replay(log []writeOp, k, part int) []byte {
 		copy(data[op.off:], op.b[:n])
 	}
 	for _, op := range log[:k] {
-		apply(op, len(op.b))
+		if op.off >= 0 {
+			apply(op, len(op.b))
+		}
 	}
-	if k < len(log) {
+	if k < len(log) && log[k].off >= 0 {
 		apply(log[k], part)
 	}
 	return data
@@ -175,7 +181,7 @@ func TestCrashAtEveryWrite(t *testing.T) {
 		var states [][]byte
 		for k := created; k <= len(m.log); k++ {
 			parts := []int{0}
-			if k < len(m.log) && m.log[k].off != 4 {
+			if k < len(m.log) && m.log[k].off > 4 {
 				n := len(m.log[k].b)
 				parts = append(parts, 1, n/2, n-1)
 			}
@@ -312,4 +318,43 @@ func killChild(path string) {
 		fmt.Println("committed", r+1)
 	}
 	time.Sleep(time.Hour) // wait to be killed
+}
+
+// TestDurable checks the order of writes and syncs of a durable Writer:
+// every data write of a record, a sync, the numrecs update, a sync; so
+// the file system cannot store the count before the data it counts.
+func TestDurable(t *testing.T) {
+	h := crashSchema(Classic)
+	l, hdr, err := newLayout(&h)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := &memFile{}
+	w := newWriter(m, "durable.nc", l)
+	if err := w.init(hdr); err != nil {
+		t.Fatal(err)
+	}
+	w.SetDurable(true)
+	for r := range 2 {
+		start := len(m.log)
+		tm, psi, _ := crashRecord(r)
+		// "code" is left to CommitRecord's fill values.
+		if err := cmpErr(w.WriteRecordFloat64("time", r, []float64{tm}), w.WriteRecordFloat64("psi", r, psi), w.CommitRecord()); err != nil {
+			t.Fatal(err)
+		}
+		var kinds []string
+		for _, op := range m.log[start:] {
+			switch {
+			case op.off < 0:
+				kinds = append(kinds, "sync")
+			case op.off == 4:
+				kinds = append(kinds, "numrecs")
+			default:
+				kinds = append(kinds, "data")
+			}
+		}
+		if got := strings.Join(kinds, " "); got != "data data data sync numrecs sync" {
+			t.Errorf("record %d: %s, want data data data sync numrecs sync", r, got)
+		}
+	}
 }

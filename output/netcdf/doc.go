@@ -21,7 +21,7 @@
 // committed record. [Append] reopens such a file to add records.
 //
 // [Open] and [Decode] read a file's header into a [File] and check that
-// every variable's data lies within the file; [File.ReadFloat64],
+// every variable's data lies within the file and overlaps no other's; [File.ReadFloat64],
 // [File.ReadRecordFloat64], [File.ReadVar] and [File.ReadRecord] read
 // values. The reader is meant for untrusted input: every count and offset
 // is checked against the file's size before anything is allocated, and
@@ -31,7 +31,8 @@
 //
 // Not covered: the NetCDF-4 (HDF5) format, the CDF-5 format and its
 // unsigned and 64-bit integer types, unlimited dimensions other than the
-// first, non-ASCII names (the format requires NFC-normalised UTF-8, which
+// first, variables over 2 GiB in the classic format (which allows one, if
+// it is the last: use Offset64), non-ASCII names (the format requires NFC-normalised UTF-8, which
 // the standard library cannot produce), reading or writing hyperslabs
 // smaller than a whole variable or record, and interpreting _FillValue,
 // scale_factor or other conventions when reading (values are returned as

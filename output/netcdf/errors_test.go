@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/binary"
 	"errors"
+	"fmt"
 	"os"
 	"path/filepath"
 	"runtime"
@@ -217,6 +218,11 @@ func TestDecodeErrors(t *testing.T) {
 		{"begin in header", put64(rf, 112, 100), `offset 76: variable "a": data begins at offset 100, inside the header (which ends at 180)`},
 		{"begin past end", put32(tiny, 76, 1<<20), `offset 44: variable "vx": data [1048576, 1048586) extends past the end of the file (92 bytes)`},
 		{"begin negative", put64(rf, 112, 1<<63), `offset 112: variable "a": data begins at offset 9223372036854775808, beyond the largest supported file`},
+		// Variables' data may not overlap (the specification's layout: fixed
+		// variables one after the other, then records of one slab each).
+		{"fixed overlap", put32(layoutCases[4].want, 188, 226), `offset 128: variable "f": data at offset 226 overlaps variable "s" [224, 229)`},
+		{"record overlap", put64(rf, 172, 184), `offset 120: variable "b": data at offset 184 overlaps variable "a" [180, 186)`},
+		{"record too long", put64(rf, 172, 194), `offset 120: variable "b": record data [194, 198) does not fit in the first record [180, 192)`},
 		{"numrecs too large", put32(rf, 4, 3), `offset 4: numrecs is 3 but the file (204 bytes) holds only 2 complete records of variable "a"`},
 		{"truncated record", rf[:200], `offset 4: numrecs is 2 but the file (200 bytes) holds only 1 complete records of variable "b"`},
 		{"truncated fixed data", tiny[:88], `offset 44: variable "vx": data [80, 90) extends past the end of the file (88 bytes)`},
@@ -323,5 +329,32 @@ func TestDecodeAllocations(t *testing.T) {
 		if got := after.TotalAlloc - before.TotalAlloc; got > 1<<20 {
 			t.Errorf("decoding a corrupt %d-byte file 10 times allocated %d bytes", len(data), got)
 		}
+	}
+}
+
+// TestDecodeAliasing builds a header whose variables all claim the same
+// bytes. Fuzzing found that such a file, accepted, made reading every
+// variable cost the number of variables times the file's size; the
+// decoder refuses overlapping data instead.
+func TestDecodeAliasing(t *testing.T) {
+	const nvars, n = 1000, 1 << 16
+	h := Header{Format: Classic, Dims: []Dim{{"n", n}}}
+	for i := range nvars {
+		h.Vars = append(h.Vars, Var{Name: fmt.Sprintf("v%d", i), Type: Byte, Dims: []string{"n"}})
+	}
+	l, _, err := newLayout(&h)
+	if err != nil {
+		t.Fatal(err)
+	}
+	hdr := encodeHeader(&h, l, 0)
+	for i := range l.vars {
+		l.vars[i].begin = int64(len(hdr)) // all at the start of the data
+	}
+	data := append(encodeHeader(&h, l, 0), make([]byte, n)...)
+	_, err = Decode(bytes.NewReader(data), int64(len(data)))
+	// The header: 8 + 20 (dimension list) + 8 + 8 + 1000 variables of 36
+	// bytes (names of up to 4 characters) = 36044 bytes.
+	if want := `offset 80: variable "v1": data at offset 36044 overlaps variable "v0" [36044, 101580)`; err == nil || !strings.Contains(err.Error(), want) {
+		t.Errorf("error %v, want %q", err, want)
 	}
 }

@@ -2,10 +2,12 @@ package netcdf
 
 import (
 	"bufio"
+	"cmp"
 	"errors"
 	"fmt"
 	"io"
 	"os"
+	"slices"
 )
 
 // FormatError reports a file that is not a valid classic or 64-bit
@@ -70,7 +72,8 @@ func Open(path string) (*File, error) {
 }
 
 // Decode decodes the header of the NetCDF data of the given size in r
-// and checks that the data of every variable lies within it. A record
+// and checks that the data of every variable lies within it and
+// overlaps no other variable's. A record
 // count marked as streaming (0xFFFFFFFF) is computed from the size.
 // Errors in the data are *FormatError values giving the byte offset.
 func Decode(r io.ReaderAt, size int64) (*File, error) {
@@ -420,6 +423,9 @@ func (d *decoder) header() (*File, error) {
 			return nil, d.fail(varOff[i], "variable %q: data [%d, %d) extends past the end of the file (%d bytes)", v.name, v.begin, v.begin+v.size, d.size)
 		}
 	}
+	if err := d.checkOverlap(l, varOff); err != nil {
+		return nil, err
+	}
 	// The records each record variable has room for in the file.
 	complete := func(v *varLayout) int64 {
 		if v.begin > d.size || v.size > d.size-v.begin {
@@ -578,4 +584,38 @@ func (d *decoder) attrs(what string) ([]Attr, error) {
 		}
 	}
 	return attrs, nil
+}
+
+// checkOverlap checks that the variables' data do not overlap, as in the
+// format specification's layout: fixed-size variables one after the
+// other, then the records, each holding one slab of every record
+// variable. Without this check a small header could make many variables
+// alias the same bytes, and reading them all cost far more than the
+// file's size.
+func (d *decoder) checkOverlap(l *layout, varOff []int64) error {
+	var fixed, rec []int
+	for i := range l.vars {
+		if l.vars[i].rec {
+			rec = append(rec, i)
+		} else {
+			fixed = append(fixed, i)
+		}
+	}
+	byBegin := func(a, b int) int { return cmp.Compare(l.vars[a].begin, l.vars[b].begin) }
+	slices.SortStableFunc(fixed, byBegin)
+	slices.SortStableFunc(rec, byBegin)
+	all := append(fixed, rec...)
+	for k := 1; k < len(all); k++ {
+		p, v := &l.vars[all[k-1]], &l.vars[all[k]]
+		if p.begin+p.size > v.begin {
+			return d.fail(varOff[all[k]], "variable %q: data at offset %d overlaps variable %q [%d, %d)", v.name, v.begin, p.name, p.begin, p.begin+p.size)
+		}
+	}
+	if len(rec) > 1 {
+		first, last := &l.vars[rec[0]], &l.vars[rec[len(rec)-1]]
+		if last.begin+last.size > first.begin+l.recsize {
+			return d.fail(varOff[rec[len(rec)-1]], "variable %q: record data [%d, %d) does not fit in the first record [%d, %d)", last.name, last.begin, last.begin+last.size, first.begin, first.begin+l.recsize)
+		}
+	}
+	return nil
 }

@@ -224,7 +224,8 @@ func defaultFill(t Type) float64 {
 }
 
 // Header is the schema of a file: its format, dimensions, global
-// attributes and variables, in the order they are stored.
+// attributes and variables, in the order they are stored. Create needs
+// Format to be Classic or Offset64.
 type Header struct {
 	Format Format
 	Dims   []Dim

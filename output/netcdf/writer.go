@@ -30,8 +30,10 @@ type file interface {
 // header counts complete records only. SetDurable extends this to machine
 // crashes.
 //
-// A Writer is not safe for concurrent use. After a write fails, every
-// later call returns the same error.
+// A refused call (an unknown variable, a wrong length, a value the
+// variable's type cannot hold) writes nothing and leaves the Writer
+// usable. After writing to the file fails, every later call returns that
+// error. A Writer is not safe for concurrent use.
 type Writer struct {
 	f       file
 	path    string
