@@ -32,17 +32,23 @@ func TestCreateErrors(t *testing.T) {
 		{"trailing space", Header{Format: Classic, Attrs: []Attr{{"a ", "x"}}}, `global attribute 0: name "a ": trailing spaces`},
 		{"control", Header{Format: Classic, Dims: []Dim{{"a\tb", 1}}}, `name "a\tb": control character at byte 1`},
 		{"non-ASCII", Header{Format: Classic, Dims: []Dim{{"ψ", 1}}}, `name "ψ": non-ASCII names are not supported`},
+		// netCDF-C's NC_MAX_NAME is 256 (from memory).
 		{"long name", Header{Format: Classic, Dims: []Dim{{strings.Repeat("n", 257), 1}}}, "is 257 bytes long, more than 256"},
 		// "There can be at most one record dimension."
 		{"two record dims", Header{Format: Classic, Dims: []Dim{{"t", 0}, {"u", 0}}}, `dimension "u": a second record (unlimited, Len 0) dimension; "t" is already one`},
 		{"negative length", Header{Format: Classic, Dims: []Dim{{"n", -1}}}, `dimension "n": length -1 outside [0, 2147483647]`},
 		{"long dim", Header{Format: Offset64, Dims: []Dim{{"n", 1 << 31}}}, `dimension "n": length 2147483648 outside`},
+		// Names are unique among dimensions, among variables and within an
+		// attribute list (common practice: ncdump and the data model look
+		// them up by name).
 		{"duplicate dim", Header{Format: Classic, Dims: []Dim{{"n", 1}, {"n", 2}}}, `dimension "n" defined twice`},
 		{"duplicate var", Header{Format: Classic, Vars: []Var{v("a", Int), v("a", Int)}}, `variable "a" defined twice`},
 		{"bad type", Header{Format: Classic, Vars: []Var{v("a", 7)}}, `variable "a": invalid type 7`},
 		{"unknown dim", Header{Format: Classic, Dims: dims, Vars: []Var{v("a", Int, "n", "m")}}, `variable "a": dimension "m" is not defined`},
 		// A record variable's first dimension is the record dimension.
 		{"record dim second", Header{Format: Classic, Dims: dims, Vars: []Var{v("a", Int, "n", "t")}}, `variable "a": the record dimension "t" must be its first dimension, not dimension 1`},
+		// Attribute values are arrays of one of the six types (specification:
+		// attr = name nc_type nelems [values ...]); dims lengths are NON_NEG.
 		{"attr type", Header{Format: Classic, Vars: []Var{{Name: "a", Type: Int, Attrs: []Attr{{"x", uint16(1)}}}}}, `variable "a": attribute "x": unsupported value type uint16`},
 		{"attr []byte", Header{Format: Classic, Attrs: []Attr{{"x", []byte("a")}}}, `global attribute "x": value of type []byte: use string for char or []int8 for byte`},
 		{"attr nil", Header{Format: Classic, Attrs: []Attr{{"x", nil}}}, `global attribute "x": unsupported value type <nil>`},
@@ -92,7 +98,10 @@ func TestCreateErrors(t *testing.T) {
 }
 
 // TestWriteErrors checks the errors of wrong writes, and that they leave
-// the Writer usable.
+// the Writer usable and the file unchanged (common practice: a refused
+// write must not corrupt what is already written). Values must fit the
+// variable's type: the ranges of the specification's SHORT (16-bit) and
+// FLOAT (IEEE single precision, largest finite 3.4028235e38).
 func TestWriteErrors(t *testing.T) {
 	h := Header{Format: Classic, Dims: []Dim{{"t", 0}, {"n", 3}}, Vars: []Var{
 		{Name: "f", Type: Double, Dims: []string{"n"}},
@@ -304,7 +313,8 @@ func TestStreaming(t *testing.T) {
 }
 
 // TestDecodeAllocations checks that corrupt counts do not make the
-// decoder allocate in proportion to the counts: a file of a few hundred
+// decoder allocate in proportion to the counts (common practice for
+// readers of untrusted files): a file of a few hundred
 // bytes claiming 2^31 dimensions, variables, attribute values or ranks
 // costs little memory.
 func TestDecodeAllocations(t *testing.T) {

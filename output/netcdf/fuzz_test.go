@@ -7,7 +7,8 @@ import (
 	"testing"
 )
 
-// FuzzDecode decodes arbitrary bytes. Seeds are valid files. The decoder
+// FuzzDecode decodes arbitrary bytes (common practice for parsers of
+// untrusted files). Seeds are valid files. The decoder
 // must not panic, must report malformed input as a *FormatError at an
 // offset within the input, and, when it accepts the input, every
 // variable must read without error and hold no more values than the

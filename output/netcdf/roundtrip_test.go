@@ -6,6 +6,7 @@ import (
 	"os"
 	"path/filepath"
 	"reflect"
+	"strings"
 	"testing"
 )
 
@@ -216,7 +217,8 @@ func checkValues(t *testing.T, f *File, fx *fixture, v Var) {
 }
 
 // TestConversions writes each numeric type from float64 and from the
-// other Go types and reads the values back.
+// other Go types and reads the values back. Integers are stored exactly
+// (format specification: 8-, 16- and 32-bit two's complement).
 func TestConversions(t *testing.T) {
 	h := Header{Format: Classic, Dims: []Dim{{"n", 4}}, Vars: []Var{
 		{Name: "b", Type: Byte, Dims: []string{"n"}},
@@ -320,7 +322,9 @@ func TestSpecialValues(t *testing.T) {
 	}
 }
 
-// TestOverwriteRecord rewrites a committed record and leaves the others.
+// TestOverwriteRecord rewrites a committed record and leaves the others
+// (common practice: the format places every record at a fixed offset, so
+// NetCDF libraries allow writing any existing record again).
 func TestOverwriteRecord(t *testing.T) {
 	h := Header{Format: Classic, Dims: []Dim{{"t", 0}, {"n", 2}}, Vars: []Var{
 		{Name: "a", Type: Double, Dims: []string{"t", "n"}},
@@ -361,7 +365,9 @@ func TestOverwriteRecord(t *testing.T) {
 }
 
 // TestAppend closes a file, reopens it with Append and adds records; a
-// pending record is committed by Close.
+// pending record is committed by Close. Record variables left unwritten
+// hold the default fill value (format specification, "Note on fill
+// values"), and the file keeps the specification's layout.
 func TestAppend(t *testing.T) {
 	for _, format := range []Format{Classic, Offset64} {
 		fx := newFixture(format)
@@ -406,4 +412,66 @@ func TestAppend(t *testing.T) {
 			t.Errorf("%v: size %d after Append, want %d", format, st.Size(), want)
 		}
 	}
+}
+
+// TestLargeVariables writes and fills variables larger than the
+// Writer's 1 MiB encoding buffer, so that they go out in several pieces.
+func TestLargeVariables(t *testing.T) {
+	const n = 300001
+	h := Header{Format: Offset64, Dims: []Dim{{"t", 0}, {"n", n}}, Vars: []Var{
+		{Name: "d", Type: Double, Dims: []string{"n"}},
+		{Name: "u", Type: Float, Dims: []string{"n"}},
+		{Name: "r", Type: Short, Dims: []string{"t", "n"}},
+		{Name: "c", Type: Char, Dims: []string{"t", "n"}},
+	}}
+	path := filepath.Join(t.TempDir(), "large.nc")
+	w, err := Create(path, h)
+	if err != nil {
+		t.Fatal(err)
+	}
+	d := make([]float64, n)
+	r := make([]int16, n)
+	for i := range d {
+		d[i] = float64(i)*0.5 - 7
+		r[i] = int16(i % 30011)
+	}
+	text := strings.Repeat("abc", n/3)
+	if err := cmpErr(w.WriteFloat64("d", d), w.WriteRecord("r", 0, r), w.WriteRecord("c", 0, text), w.CommitRecord(), w.CommitRecord(), w.Close()); err != nil {
+		t.Fatal(err)
+	}
+	f, err := Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	gd, _ := f.ReadFloat64("d")
+	gu, _ := f.ReadFloat64("u")
+	gr, _ := f.ReadVar("r")
+	gc, _ := f.ReadRecord("c", 0)
+	if !reflect.DeepEqual(gd, d) {
+		t.Errorf("d differs")
+	}
+	// Never written: the default fill value (format specification).
+	if !reflect.DeepEqual(gu, repeat(float64(FillFloat), n)) {
+		t.Errorf("u is not all FILL_FLOAT")
+	}
+	want := append(append([]int16{}, r...), toInt16(repeat(float64(FillShort), n))...)
+	if !reflect.DeepEqual(gr, want) {
+		t.Errorf("r differs")
+	}
+	if got := string(gc.([]byte)); got != text+"\x00" { // 300000 characters and one NUL fill
+		t.Errorf("c differs: %d characters", len(got))
+	}
+	st, _ := os.Stat(path)
+	if want := specSize(&h, 2); st.Size() != want {
+		t.Errorf("size %d, want %d", st.Size(), want)
+	}
+}
+
+func toInt16(x []float64) []int16 {
+	out := make([]int16, len(x))
+	for i, v := range x {
+		out[i] = int16(v)
+	}
+	return out
 }
