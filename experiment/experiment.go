@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/eddyblock/eddyblock/internal/settings"
 	"github.com/eddyblock/eddyblock/qg"
 	"github.com/eddyblock/eddyblock/qg/diag"
 	"github.com/eddyblock/eddyblock/wavemaker"
@@ -28,8 +29,10 @@ type Experiment struct {
 	lastTime   float64
 }
 
-// New validates c and builds the experiment at t = 0.
-func New(c Config) (*Experiment, error) {
+// New validates c and builds the experiment at t = 0, checking the initial
+// state as a step would (finite, CFL number within model.max_cfl). Call
+// Close when done with it.
+func New(c Config) (e *Experiment, err error) {
 	if err := c.Validate(); err != nil {
 		return nil, err
 	}
@@ -37,7 +40,12 @@ func New(c Config) (*Experiment, error) {
 	if err != nil {
 		return nil, prefix("model.", err)
 	}
-	e := &Experiment{Config: c, Model: m}
+	defer func() {
+		if err != nil {
+			m.Close()
+		}
+	}()
+	e = &Experiment{Config: c, Model: m}
 	if c.Block.Shape != NoBlock && c.Block.Shape != "" {
 		b, err := c.Block.Block(c.Model)
 		if err != nil {
@@ -47,6 +55,11 @@ func New(c Config) (*Experiment, error) {
 			return nil, err
 		}
 		e.HasBlock = true
+	}
+	// the checks of a step's start, on the initial state: a block too
+	// strong for the time step is refused now, not at the first step
+	if err := m.CheckState(); err != nil {
+		return nil, fmt.Errorf("experiment: initial state: %w", err)
 	}
 	mk, err := wavemaker.New(c.Wavemaker, m)
 	if err != nil {
@@ -60,6 +73,10 @@ func New(c Config) (*Experiment, error) {
 	}
 	return e, nil
 }
+
+// Close stops the goroutines of the experiment's model. The experiment's
+// results can still be read; it cannot step again.
+func (e *Experiment) Close() { e.Model.Close() }
 
 // Progress is one line of a run's log.
 type Progress struct {
@@ -157,12 +174,43 @@ func (e *Experiment) Checkpoint() (*qg.Checkpoint, error) {
 		return nil, err
 	}
 	c.Extra["diagnostics"] = b
+	if c.Settings, err = e.Config.trajectorySettings(); err != nil {
+		return nil, err
+	}
 	return c, nil
+}
+
+// freeKeys are the settings a restart may change: they do not change the
+// trajectory or the diagnostics, only how long the run goes, how often it
+// reports, what it is called and how many goroutines compute it.
+var freeKeys = []string{"name", "run.days", "run.report_days", "model.workers"}
+
+// trajectorySettings flattens the configuration to the keys a checkpoint
+// records: everything but freeKeys.
+func (c Config) trajectorySettings() (map[string]string, error) {
+	m, err := settings.Flatten(c, "")
+	if err != nil {
+		return nil, err
+	}
+	for _, k := range freeKeys {
+		delete(m, k)
+	}
+	return m, nil
 }
 
 // Restore continues the run from a checkpoint written by the same
 // configuration.
 func (e *Experiment) Restore(c *qg.Checkpoint) error {
+	if c.Settings == nil {
+		return errors.New("experiment: the checkpoint records no experiment settings (was it written by a model alone?)")
+	}
+	now, err := e.Config.trajectorySettings()
+	if err != nil {
+		return err
+	}
+	if d := settings.Diff(c.Settings, now); len(d) > 0 {
+		return &qg.ConfigMismatch{Changes: d}
+	}
 	if err := e.Model.Restore(c); err != nil {
 		return err
 	}

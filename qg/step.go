@@ -243,3 +243,51 @@ func (m *Model) afterStep(src [2][]complex128) error {
 	}
 	return nil
 }
+
+// CheckState runs the checks of a step's start on the current state without
+// stepping: the state must be finite and its CFL number (with the imposed
+// flow and a fixed block) at most Config.MaxCFL. It returns a *StepError
+// naming the field, as Step would, or nil. A run calls it before its first
+// step, so that a configuration whose initial flow is already too fast is
+// refused before any work.
+func (m *Model) CheckState() error {
+	for n := range 2 {
+		for _, z := range m.q[n] {
+			if math.IsNaN(real(z)) || math.IsNaN(imag(z)) || math.IsInf(real(z), 0) || math.IsInf(imag(z), 0) {
+				return &StepError{m.t, m.steps, fmt.Sprintf("q%d", n+1), "PV is not finite"}
+			}
+		}
+	}
+	g := m.g
+	fixed := m.blk != nil && m.blk.mode == Fixed
+	var cfl float64
+	var at [3]float64
+	for n := range 2 {
+		u, v := m.u[n], m.v[n]
+		m.velocity(&m.lw[n], u, v, m.psi[n])
+		U := m.ph.U1
+		if n == 1 {
+			U = m.ph.U2
+		}
+		for i := range u {
+			ut, vt := u[i]+U, v[i]
+			if fixed {
+				ut, vt = ut+m.blk.u[n][i], vt+m.blk.v[n][i]
+			}
+			if c := (math.Abs(ut)/g.Dx + math.Abs(vt)/g.Dy) * m.cfg.Dt; c > cfl || c != c {
+				cfl, at = c, [3]float64{float64(n + 1), ut, vt}
+				if c != c {
+					break
+				}
+			}
+		}
+	}
+	if cfl != cfl || math.IsInf(cfl, 0) {
+		return &StepError{m.t, m.steps, fmt.Sprintf("u%d", int(at[0])), "velocity is not finite"}
+	}
+	if cfl > m.cfg.MaxCFL {
+		return &StepError{m.t, m.steps, fmt.Sprintf("u%d", int(at[0])),
+			fmt.Sprintf("CFL number %.3g of the state exceeds max_cfl = %g (u = %.4g, v = %.4g m/s)", cfl, m.cfg.MaxCFL, at[1], at[2])}
+	}
+	return nil
+}

@@ -1,13 +1,10 @@
 package main
 
 import (
-	"context"
 	"errors"
 	"flag"
 	"fmt"
 	"io"
-	"os"
-	"os/signal"
 	"path/filepath"
 	"runtime"
 	"strings"
@@ -79,8 +76,21 @@ func cmdSweep(args []string, stdout, stderr io.Writer) error {
 	if *member >= len(members) {
 		return fmt.Errorf("-member = %d, but the sweep has %d members", *member, len(members))
 	}
-	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
-	defer stop()
+	// the members' output directories, checked before any run
+	outs := make([]*outDir, len(members))
+	for i := range members {
+		if *out == "" || (*member >= 0 && i != *member) {
+			continue
+		}
+		o, err := stageOutDir(filepath.Join(*out, fmt.Sprintf("member-%03d", i)))
+		if err != nil {
+			return fmt.Errorf("-out: %w", err)
+		}
+		defer o.discard()
+		outs[i] = o
+	}
+	ctx, sig, stopSignals := signalContext()
+	defer stopSignals()
 	results := make([]*experiment.Experiment, len(members))
 	errs := make([]error, len(members))
 	sem := make(chan struct{}, *jobs)
@@ -96,15 +106,23 @@ func cmdSweep(args []string, stdout, stderr io.Writer) error {
 			defer func() { <-sem }()
 			e, err := experiment.New(members[i].cfg)
 			if err == nil {
+				defer e.Close()
 				err = e.Run(ctx, nil)
 			}
-			if err == nil && *out != "" {
-				err = writeOutputs(filepath.Join(*out, fmt.Sprintf("member-%03d", i)), e)
+			if err == nil && outs[i] != nil {
+				err = writeOutputs(outs[i].stage, e)
+				if err == nil {
+					err = outs[i].commit()
+				}
 			}
 			results[i], errs[i] = e, err
 		}()
 	}
 	wg.Wait()
+	if s := sig(); s != nil {
+		fmt.Fprintf(stdout, "sweep stopped by %s; members that had not finished wrote no outputs\n", s.name)
+		return s
+	}
 	fmt.Fprintf(stdout, "%-24s %12s %12s %12s %12s %10s %10s\n", *key, "eddy/day", "vort/day", "interf/day", "corr", "index", "EKE1")
 	var firstErr error
 	for i, m := range members {
