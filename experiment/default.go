@@ -2,6 +2,7 @@ package experiment
 
 import (
 	"fmt"
+	"strings"
 
 	"github.com/eddyblock/eddyblock/qg"
 	"github.com/eddyblock/eddyblock/qg/block"
@@ -92,10 +93,29 @@ func StormTrack() Config {
 // Builtin returns the built-in experiment of the given name: Default's or
 // StormTrack's (their Name fields).
 func Builtin(name string) (Config, error) {
-	for _, c := range []Config{Default(), StormTrack()} {
+	var names []string
+	for _, c := range Builtins() {
 		if c.Name == name {
 			return c, nil
 		}
+		names = append(names, fmt.Sprintf("%q", c.Name))
 	}
-	return Config{}, fmt.Errorf("experiment: no built-in experiment %q (there are %q and %q)", name, Default().Name, StormTrack().Name)
+	return Config{}, fmt.Errorf("experiment: no built-in experiment %q (there are %s)", name, strings.Join(names, ", "))
+}
+
+// Builtins returns every built-in experiment: Default, StormTrack and
+// WhiteNoiseControl.
+func Builtins() []Config { return []Config{Default(), StormTrack(), WhiteNoiseControl()} }
+
+// WhiteNoiseControl returns the control of the default experiment: the
+// same model, block, place and size of the wave source, but incoherent
+// stirring — white noise over wavelengths of 1000–2500 km injecting
+// 10⁻⁵ m² s⁻³ — instead of a coherent wave train. It erodes the block.
+func WhiteNoiseControl() Config {
+	c := Default()
+	c.Name = "white-noise-control"
+	c.Wavemaker.Kind = wavemaker.White
+	c.Wavemaker.Band = wavemaker.BandConfig{Kind: wavemaker.TotalBand, MinWavelength: 1e6, MaxWavelength: 2.5e6}
+	c.Wavemaker.InjectionRate = 1e-5
+	return c
 }

@@ -8,7 +8,6 @@ import (
 	"github.com/eddyblock/eddyblock/qg"
 	"github.com/eddyblock/eddyblock/qg/diag"
 	"github.com/eddyblock/eddyblock/qg/fft"
-	"github.com/eddyblock/eddyblock/wavemaker"
 )
 
 // runExperiment runs c to its end and returns the summary.
@@ -150,11 +149,7 @@ func TestStochasticSourceErodes(t *testing.T) {
 		t.Skip("runs a 60-day experiment")
 	}
 	t.Parallel()
-	c := Default()
-	c.Name = "stochastic-source-on-axis"
-	c.Wavemaker.Kind = wavemaker.White
-	c.Wavemaker.Band = wavemaker.BandConfig{Kind: wavemaker.TotalBand, MinWavelength: 1e6, MaxWavelength: 2.5e6}
-	c.Wavemaker.InjectionRate = 1e-5
+	c := WhiteNoiseControl()
 	c.Run.Days, c.Run.SpinUpDays = 60, 20
 	_, s := runExperiment(t, c)
 	if r := s.EddyVorticity.Rate; !(r < 0) {
