@@ -79,6 +79,8 @@ type Accumulator struct {
 	lastLedger qg.Ledger
 	sampled    bool
 	series     Series
+
+	live *liveBuf // EddyField's work buffers, made at its first call
 }
 
 // New makes an Accumulator for model m. It reads the model's block (if
