@@ -12,7 +12,9 @@ import (
 
 // load keeps n goroutines busy until the returned function is called, so
 // that the team's goroutines compete for the threads (common practice for
-// exposing scheduling-dependent hand-off bugs).
+// exposing scheduling-dependent hand-off bugs). They yield every
+// microsecond or so, so the scheduler interleaves them with the team's
+// goroutines at random points instead of in whole 10 ms slices.
 func load(n int) (stop func()) {
 	var quit atomic.Bool
 	var wg sync.WaitGroup
@@ -28,6 +30,7 @@ func load(n int) (stop func()) {
 				if x < 0 {
 					panic("unreachable")
 				}
+				runtime.Gosched()
 			}
 		}()
 	}
