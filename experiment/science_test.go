@@ -43,10 +43,10 @@ func fit(t *testing.T, e *Experiment, name string, norm diag.Norm) diag.Projecti
 		if !ok {
 			t.Fatalf("no field %s%s", name, suffix)
 		}
-		x[n] = make([]complex128, len(g.K2))
+		x[n] = make([]complex128, g.Len())
 		plan.Forward(x[n], fl.Data)
 		for p := range x[n] {
-			x[n][p] *= complex(g.Keep[p], 0)
+			x[n][p] *= complex(g.Keep(p), 0)
 		}
 	}
 	pb, _ := m.BlockStreamfunction()

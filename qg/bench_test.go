@@ -33,9 +33,9 @@ func randomPV(g *Grid, amp float64, r *rand.Rand) [2][]complex128 {
 	scale := amp * float64(g.Nx*g.Ny) / 8
 	k0 := 2 * 3.14159 / (g.Lx / 8)
 	for n := range 2 {
-		q[n] = make([]complex128, len(g.K2))
-		for p, k2 := range g.K2 {
-			if g.Keep[p] == 0 || k2 == 0 {
+		q[n] = make([]complex128, len(g.k2))
+		for p, k2 := range g.k2 {
+			if g.keep[p] == 0 || k2 == 0 {
 				continue
 			}
 			a := scale / (1 + k2/(k0*k0))

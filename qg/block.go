@@ -64,7 +64,7 @@ func (m *Model) SetBlock(b Block) error {
 	default:
 		return &FieldError{"block.mode", string(b.Mode), `must be "fixed", "forced", "relaxed" or "free"`}
 	}
-	ns, np := len(m.g.K2), m.g.Nx*m.g.Ny
+	ns, np := len(m.g.k2), m.g.Nx*m.g.Ny
 	bs := &blockState{mode: b.Mode, linear: b.Linear, tau: b.RelaxTime}
 	for n := range 2 {
 		if err := m.checkPhys(b.Psi[n], fmt.Sprintf("block streamfunction of layer %d", n+1)); err != nil {
@@ -74,7 +74,7 @@ func (m *Model) SetBlock(b Block) error {
 		bs.q[n] = make([]complex128, ns)
 		m.plan.Forward(bs.psi[n], b.Psi[n])
 		for p := range ns {
-			keep := m.g.Keep[p]
+			keep := m.g.keep[p]
 			if m.filter != nil && m.filter[p] != 1 {
 				keep = 0
 			}
@@ -116,7 +116,7 @@ func (m *Model) SetBlock(b Block) error {
 		bs.force = [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
 		for n := range 2 {
 			for p := range ns {
-				bs.force[n][p] = scale(-m.g.Keep[p], m.dq[n][p])
+				bs.force[n][p] = scale(-m.g.keep[p], m.dq[n][p])
 			}
 		}
 	}
@@ -154,14 +154,14 @@ func (m *Model) BlockMode() BlockMode {
 // reads only the retained columns.
 func (m *Model) velocity(lw *layerWork, u, v []float64, psi []complex128) {
 	g := m.g
-	nk, nc := g.Nkx, g.KeptCols
+	nk, nc := g.Nkx, g.keptCols
 	a, b := lw.du, lw.dv
-	for _, j := range g.KeptRows {
+	for _, j := range g.keptRows {
 		aj, bj, pj := a[j*nk:j*nk+nc], b[j*nk:j*nk+nc], psi[j*nk:j*nk+nc]
-		l := g.L[j]
+		l := g.l[j]
 		for i, z := range pj {
 			aj[i] = mulI(-l, z)
-			bj[i] = mulI(g.K[i], z)
+			bj[i] = mulI(g.k[i], z)
 		}
 	}
 	lw.plan.Inverse(u, a)

@@ -114,7 +114,7 @@ func (m *Model) Restore(c *Checkpoint) error {
 	if len(c.History) != len(c.HistoryRates) || len(c.History) > len(m.hist) {
 		return fmt.Errorf("qg: checkpoint: %d history tendencies with %d rates, want equal numbers, at most %d", len(c.History), len(c.HistoryRates), len(m.hist))
 	}
-	ns := len(m.g.K2)
+	ns := len(m.g.k2)
 	for i, h := range c.History {
 		if len(h[0]) != ns || len(h[1]) != ns {
 			return fmt.Errorf("qg: checkpoint: history tendency %d has %d and %d coefficients, the grid needs %d", i, len(h[0]), len(h[1]), ns)

@@ -12,23 +12,23 @@ func (m *Model) setDissipation() {
 	g := m.g
 	switch d.Kind {
 	case Hyperviscosity:
-		m.hyper = make([]float64, len(g.K2))
-		for p, k2 := range g.K2 {
-			m.hyper[p] = d.Viscosity * math.Pow(k2, float64(d.Order)) * g.Keep[p]
+		m.hyper = make([]float64, len(g.k2))
+		for p, k2 := range g.k2 {
+			m.hyper[p] = d.Viscosity * math.Pow(k2, float64(d.Order)) * g.keep[p]
 		}
 	case CutoffFilter:
-		m.filter = make([]float64, len(g.K2))
-		for p := range g.K2 {
+		m.filter = make([]float64, len(g.k2))
+		for p := range g.k2 {
 			i, j := p%g.Nkx, p/g.Nkx
-			kx := g.K[i] * g.Dx / (2 * math.Pi / 3)
-			ky := g.L[j] * g.Dy / (2 * math.Pi / 3)
+			kx := g.k[i] * g.Dx / (2 * math.Pi / 3)
+			ky := g.l[j] * g.Dy / (2 * math.Pi / 3)
 			kappa := math.Hypot(kx, ky)
 			f := 1.0
 			if kappa > d.FilterCutoff {
 				lam := math.Pow((kappa-d.FilterCutoff)/(1-d.FilterCutoff), d.FilterOrder) / d.FilterTime
 				f = math.Exp(-lam * m.cfg.Dt)
 			}
-			m.filter[p] = f * g.Keep[p]
+			m.filter[p] = f * g.keep[p]
 		}
 	}
 }
@@ -56,7 +56,7 @@ func (m *Model) filterLayer(n int, src [2][]complex128) float64 {
 				dst[p] = x
 				continue
 			}
-			if w := g.Weight[p]; w != 0 {
+			if w := g.weight[p]; w != 0 {
 				pn := scale(b1[p], src[0][p]) + scale(b2[p], src[1][p])
 				s += (f*f - 1) * (-0.5 * w * wn * dot(pn, x))
 			}

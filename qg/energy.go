@@ -67,8 +67,8 @@ func (l *Ledger) Sum() float64 {
 // domain mean, of spectral streamfunctions psi (m² s⁻²):
 // KE = ½ Σ_n (H_n/H)⟨|∇ψ_n|²⟩, APE = ½ (H1/H) F1 ⟨(ψ1 − ψ2)²⟩.
 func Energy(g *Grid, ph Physics, psi [2][]complex128) (ke, ape float64) {
-	for p, k2 := range g.K2 {
-		w := g.Weight[p]
+	for p, k2 := range g.k2 {
+		w := g.weight[p]
 		if w == 0 {
 			continue
 		}
@@ -107,7 +107,7 @@ func (m *Model) layerEnergy(n int, q [2][]complex128, f []float64, psi []complex
 	for j := range g.Ny {
 		var s float64
 		for p := j * nk; p < (j+1)*nk; p++ {
-			w := g.Weight[p]
+			w := g.weight[p]
 			if w == 0 && psi == nil {
 				continue
 			}

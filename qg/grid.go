@@ -10,30 +10,69 @@ import "math"
 // (l = 2πj/Ly for j ≤ Ny/2, 2π(j−Ny)/Ly above). Coefficients are the
 // unnormalised sums of the forward transform, so a field's domain mean of a
 // product is (1/M²)·Σ over the full spectrum with M = Nx·Ny (see Inner).
+//
+// The scalar fields are read-only: a Grid is shared by a model and
+// everything built on it. The wavenumbers, the 2/3-rule mask and the
+// quadrature weights are read through methods.
 type Grid struct {
 	Nx, Ny int
 	Nkx    int     // Nx/2 + 1
 	Lx, Ly float64 // domain size, m
 	Dx, Dy float64 // grid spacing, m
 
-	K  []float64 // zonal wavenumber per column i, rad m⁻¹
-	L  []float64 // meridional wavenumber per row j, rad m⁻¹
-	K2 []float64 // k² + l² per spectral point
+	k  []float64 // zonal wavenumber per column i, rad m⁻¹
+	l  []float64 // meridional wavenumber per row j, rad m⁻¹
+	k2 []float64 // k² + l² per spectral point
 
-	// Keep is 1 on the modes retained by the 2/3 rule (|i| ≤ Nx/3 and
+	// keep is 1 on the modes retained by the 2/3 rule (|i| ≤ Nx/3 and
 	// |j| ≤ Ny/3) and 0 elsewhere; the model's state lives on these modes.
-	Keep []float64
-	// KeptRows lists the rows j that hold retained modes, and KeptCols is
-	// the number of leading columns that do (i < KeptCols): the loops over
+	keep []float64
+	// keptRows lists the rows j that hold retained modes, and keptCols is
+	// the number of leading columns that do (i < keptCols): the loops over
 	// the state visit only these, the other coefficients being zero.
-	KeptRows []int
-	KeptCols int
-	// Weight is the Hermitian multiplicity of each stored coefficient (1
-	// for i = 0 and i = Nx/2, 2 otherwise) times Keep, divided by M², so that
-	// Σ Weight·Re(a·conj(b)) is the domain mean of the product of two
+	keptRows []int
+	keptCols int
+	// weight is the Hermitian multiplicity of each stored coefficient (1
+	// for i = 0 and i = Nx/2, 2 otherwise) times keep, divided by M², so that
+	// Σ weight·Re(a·conj(b)) is the domain mean of the product of two
 	// truncated fields.
-	Weight []float64
+	weight []float64
 }
+
+// Len returns the number of spectral points, Ny·Nkx.
+func (g *Grid) Len() int { return len(g.k2) }
+
+// Points returns the number of grid points, Nx·Ny.
+func (g *Grid) Points() int { return g.Nx * g.Ny }
+
+// K returns the zonal wavenumber of column i, k = 2πi/Lx (rad m⁻¹).
+func (g *Grid) K(i int) float64 { return g.k[i] }
+
+// L returns the meridional wavenumber of row j, l = 2πj/Ly for j ≤ Ny/2
+// and 2π(j − Ny)/Ly above (rad m⁻¹).
+func (g *Grid) L(j int) float64 { return g.l[j] }
+
+// K2 returns k² + l² at spectral point p = j·Nkx + i (rad² m⁻²).
+func (g *Grid) K2(p int) float64 { return g.k2[p] }
+
+// Keep returns 1 if spectral point p is retained by the 2/3 rule
+// (|i| ≤ Nx/3 and |j| ≤ Ny/3, the modes the model's state lives on) and 0
+// otherwise, so that it can multiply a coefficient.
+func (g *Grid) Keep(p int) float64 { return g.keep[p] }
+
+// Weight returns the quadrature weight of spectral point p: the Hermitian
+// multiplicity of the stored coefficient (1 for i = 0 and i = Nx/2, 2
+// otherwise) times Keep(p), divided by (Nx·Ny)², so that
+// Σ_p Weight(p)·Re(a_p·conj(b_p)) is the domain mean of the product of two
+// truncated fields.
+func (g *Grid) Weight(p int) float64 { return g.weight[p] }
+
+// KeptCols returns the number of leading columns i that hold retained
+// modes.
+func (g *Grid) KeptCols() int { return g.keptCols }
+
+// KeptRows returns the rows j that hold retained modes (a new slice).
+func (g *Grid) KeptRows() []int { return append([]int(nil), g.keptRows...) }
 
 // NewGrid builds the grid of a validated configuration.
 func NewGrid(nx, ny int, lx, ly float64) *Grid {
@@ -41,23 +80,23 @@ func NewGrid(nx, ny int, lx, ly float64) *Grid {
 	g := &Grid{
 		Nx: nx, Ny: ny, Nkx: nkx, Lx: lx, Ly: ly,
 		Dx: lx / float64(nx), Dy: ly / float64(ny),
-		K: make([]float64, nkx), L: make([]float64, ny),
-		K2: make([]float64, ny*nkx), Keep: make([]float64, ny*nkx), Weight: make([]float64, ny*nkx),
+		k: make([]float64, nkx), l: make([]float64, ny),
+		k2: make([]float64, ny*nkx), keep: make([]float64, ny*nkx), weight: make([]float64, ny*nkx),
 	}
 	for i := range nkx {
-		g.K[i] = 2 * math.Pi * float64(i) / lx
+		g.k[i] = 2 * math.Pi * float64(i) / lx
 	}
 	for j := range ny {
 		jj := j
 		if j > ny/2 {
 			jj = j - ny
 		}
-		g.L[j] = 2 * math.Pi * float64(jj) / ly
+		g.l[j] = 2 * math.Pi * float64(jj) / ly
 	}
-	g.KeptCols = maxKeptIndex(nx) + 1
+	g.keptCols = maxKeptIndex(nx) + 1
 	for j := range ny {
 		if j <= maxKeptIndex(ny) || ny-j <= maxKeptIndex(ny) {
-			g.KeptRows = append(g.KeptRows, j)
+			g.keptRows = append(g.keptRows, j)
 		}
 	}
 	m := float64(nx) * float64(ny)
@@ -68,15 +107,15 @@ func NewGrid(nx, ny int, lx, ly float64) *Grid {
 		}
 		for i := range nkx {
 			p := j*nkx + i
-			g.K2[p] = g.K[i]*g.K[i] + g.L[j]*g.L[j]
+			g.k2[p] = g.k[i]*g.k[i] + g.l[j]*g.l[j]
 			if i <= maxKeptIndex(nx) && jj <= maxKeptIndex(ny) {
-				g.Keep[p] = 1
+				g.keep[p] = 1
 			}
 			w := 2.0
 			if i == 0 || i == nx/2 {
 				w = 1
 			}
-			g.Weight[p] = w * g.Keep[p] / (m * m)
+			g.weight[p] = w * g.keep[p] / (m * m)
 		}
 	}
 	return g
@@ -100,7 +139,7 @@ func maxKeptIndex(n int) int {
 // Inner returns the domain mean of a·b for two truncated spectral fields.
 func (g *Grid) Inner(a, b []complex128) float64 {
 	var s float64
-	w := g.Weight[:len(a)]
+	w := g.weight[:len(a)]
 	b = b[:len(a)]
 	for p, av := range a {
 		s += w[p] * (real(av)*real(b[p]) + imag(av)*imag(b[p]))

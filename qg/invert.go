@@ -15,14 +15,14 @@ type Inverter struct {
 
 // NewInverter precomputes the inversion coefficients on grid g.
 func NewInverter(g *Grid, ph Physics) *Inverter {
-	n := len(g.K2)
+	n := len(g.k2)
 	v := &Inverter{
 		a11: make([]float64, n), a12: make([]float64, n),
 		a21: make([]float64, n), a22: make([]float64, n),
-		k2: g.K2, f1: ph.F1, f2: ph.F2, keep: g.Keep,
+		k2: g.k2, f1: ph.F1, f2: ph.F2, keep: g.keep,
 	}
-	for p, k2 := range g.K2 {
-		if k2 == 0 || g.Keep[p] == 0 {
+	for p, k2 := range g.k2 {
+		if k2 == 0 || g.keep[p] == 0 {
 			continue
 		}
 		d := k2 * (k2 + ph.F1 + ph.F2)

@@ -80,7 +80,7 @@ func chkShift(t *testing.T, g *Grid, f0, f []complex128) (dx, dy, corr float64) 
 	}
 	x := make([]complex128, len(f))
 	for p := range f {
-		x[p] = f[p] * complex(real(f0[p]), -imag(f0[p])) * complex(g.Keep[p], 0)
+		x[p] = f[p] * complex(real(f0[p]), -imag(f0[p])) * complex(g.keep[p], 0)
 	}
 	c := make([]float64, g.Nx*g.Ny)
 	plan.Inverse(c, x) // c at grid point s is the correlation at displacement s
@@ -93,11 +93,11 @@ func chkShift(t *testing.T, g *Grid, f0, f []complex128) (dx, dy, corr float64) 
 	dx, dy = float64(best%g.Nx)*g.Dx, float64(best/g.Nx)*g.Dy
 	cval := func(dx, dy float64) (v, gx, gy, hxx, hxy, hyy float64) {
 		for p := range x {
-			w := g.Weight[p]
+			w := g.weight[p]
 			if w == 0 {
 				continue
 			}
-			k, l := g.K[p%g.Nkx], g.L[p/g.Nkx]
+			k, l := g.k[p%g.Nkx], g.l[p/g.Nkx]
 			s, co := math.Sincos(k*dx + l*dy)
 			re := real(x[p])*co - imag(x[p])*s
 			im := real(x[p])*s + imag(x[p])*co

@@ -42,7 +42,7 @@ func (m *Model) newLayerWork() error {
 			// Every field the model transforms lives on the retained
 			// modes, or is truncated to them afterwards: the meridional
 			// pass can skip the columns beyond them.
-			if err := p.SetColumns(g.KeptCols); err != nil {
+			if err := p.SetColumns(g.keptCols); err != nil {
 				return err
 			}
 			lw.plan = p

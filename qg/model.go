@@ -166,7 +166,7 @@ func (m *Model) SetTime(t float64) { m.t = t }
 // SetSpectralPV sets the state from spectral PV, truncated to the retained
 // modes, and restarts the AB3 history.
 func (m *Model) SetSpectralPV(q [2][]complex128) error {
-	ns := len(m.g.K2)
+	ns := len(m.g.k2)
 	for n := range 2 {
 		if len(q[n]) != ns {
 			return fmt.Errorf("qg: spectral PV of layer %d has %d points, the grid needs %d", n+1, len(q[n]), ns)
@@ -179,7 +179,7 @@ func (m *Model) SetSpectralPV(q [2][]complex128) error {
 	}
 	for n := range 2 {
 		for p, z := range q[n] {
-			m.q[n][p] = scale(m.g.Keep[p], z)
+			m.q[n][p] = scale(m.g.keep[p], z)
 		}
 	}
 	m.inv.InvertAll(m.psi, m.q)
@@ -194,7 +194,7 @@ func (m *Model) SetPV(q [2][]float64) error {
 		if err := m.checkPhys(q[n], fmt.Sprintf("PV of layer %d", n+1)); err != nil {
 			return err
 		}
-		s[n] = make([]complex128, len(m.g.K2))
+		s[n] = make([]complex128, len(m.g.k2))
 		m.plan.Forward(s[n], q[n])
 	}
 	return m.SetSpectralPV(s)
@@ -207,8 +207,8 @@ func (m *Model) SetStreamfunction(psi [2][]float64) error {
 		if err := m.checkPhys(psi[n], fmt.Sprintf("streamfunction of layer %d", n+1)); err != nil {
 			return err
 		}
-		s[n] = make([]complex128, len(m.g.K2))
-		q[n] = make([]complex128, len(m.g.K2))
+		s[n] = make([]complex128, len(m.g.k2))
+		q[n] = make([]complex128, len(m.g.k2))
 		m.plan.Forward(s[n], psi[n])
 	}
 	m.inv.PV(q, s)
@@ -256,11 +256,11 @@ func (m *Model) checkLinearStability() error {
 		return &FieldError{"dt", c.Dt, fmt.Sprintf("the imposed flow alone gives a CFL number %.3g over max_cfl = %g; dt must be below %.4g s", cfl, c.MaxCFL, c.MaxCFL*m.g.Dx/umax)}
 	}
 	var wmax float64
-	for p, k2 := range m.g.K2 {
-		if k2 == 0 || m.g.Keep[p] == 0 {
+	for p, k2 := range m.g.k2 {
+		if k2 == 0 || m.g.keep[p] == 0 {
 			continue
 		}
-		k := m.g.K[p%m.g.Nkx]
+		k := m.g.k[p%m.g.Nkx]
 		// dq_n/dt = −ik Σ B_nm q_m with B = diag(U) + diag(Qy)·A.
 		b11 := c.U1 + m.ph.Q1y*m.inv.a11[p]
 		b12 := m.ph.Q1y * m.inv.a12[p]

@@ -51,7 +51,7 @@ func (m *Model) spongeLayer(n int) {
 		}
 	}
 	plan.Forward(m.q[n], qp)
-	for p, keep := range g.Keep {
+	for p, keep := range g.keep {
 		if keep == 0 {
 			m.q[n][p] = 0
 		}

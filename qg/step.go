@@ -114,8 +114,8 @@ func (m *Model) stepRK4() error {
 		bdt, cdt := st.b*dt, next[s]*dt
 		last := s == 3
 		update := func(n int) {
-			for _, j := range g.KeptRows {
-				a, b := j*g.Nkx, j*g.Nkx+g.KeptCols
+			for _, j := range g.keptRows {
+				a, b := j*g.Nkx, j*g.Nkx+g.keptCols
 				kk, ac, qq, q00 := k[n][a:b], acc[n][a:b], out[n][a:b], q0[n][a:b]
 				for p := range kk {
 					ac[p] += scale(bdt, kk[p])
@@ -159,8 +159,8 @@ func (m *Model) stepAB3() error {
 	g := m.g
 	out := m.qs
 	update := func(n int) {
-		for _, j := range g.KeptRows {
-			a, b := j*g.Nkx, j*g.Nkx+g.KeptCols
+		for _, j := range g.keptRows {
+			a, b := j*g.Nkx, j*g.Nkx+g.keptCols
 			q, qn, f0, f1, f2 := m.q[n][a:b], out[n][a:b], m.hist[0][n][a:b], m.hist[1][n][a:b], m.hist[2][n][a:b]
 			for p := range q {
 				qn[p] = q[p] + (scale(c0, f0[p]) + scale(c1, f1[p]) + scale(c2, f2[p]))
@@ -225,7 +225,7 @@ func (m *Model) afterStep(src [2][]complex128) error {
 			}
 			s.Increment(m.dq, m.t, m.cfg.Dt)
 			for n := range 2 {
-				for p, keep := range m.g.Keep {
+				for p, keep := range m.g.keep {
 					m.q[n][p] += scale(keep, m.dq[n][p])
 				}
 			}

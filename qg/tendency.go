@@ -16,7 +16,7 @@ import "math"
 func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms]float64, update func(n int)) {
 	g := m.g
 	nk, nx := g.Nkx, g.Nx
-	rows, nc := g.KeptRows, g.KeptCols
+	rows, nc := g.keptRows, g.keptCols
 	fixed := m.blk != nil && m.blk.mode == Fixed
 	relaxed := m.blk != nil && m.blk.mode == Relaxed
 	var force [2][]complex128
@@ -101,25 +101,25 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 		}
 		hyper := m.hyper
 		for _, j := range rows {
-			l := g.L[j]
+			l := g.l[j]
 			var rAdv, rShear, rDrag, rHyp, rRel, rG, rF float64
 			for i := range nc {
 				p := j*nk + i
-				keep := g.Keep[p]
+				keep := g.keep[p]
 				if keep == 0 {
 					dn[p] = 0
 					continue
 				}
-				k := g.K[i]
+				k := g.k[i]
 				ps, qq := pn[p], qn[p]
 				adv := -(mulI(k, fuh[p]) + mulI(l, fvh[p]))
 				shear := -(mulI(k*U, qq) + mulI(k*qy, ps))
 				tot := adv + shear
-				wp := g.Weight[p]
+				wp := g.weight[p]
 				rAdv += wp * dot(ps, adv)
 				rShear += wp * dot(ps, shear)
 				if drag != 0 {
-					d := scale(drag*g.K2[p], ps)
+					d := scale(drag*g.k2[p], ps)
 					tot += d
 					rDrag += wp * dot(ps, d)
 				}

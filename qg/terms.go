@@ -28,7 +28,7 @@ import (
 // model's work buffers, so it must not be called during a step.
 func (m *Model) TermTendency(term Term, dst, q [2][]complex128, t float64) error {
 	g := m.g
-	ns := len(g.K2)
+	ns := len(g.k2)
 	for n := range 2 {
 		if len(dst[n]) != ns || len(q[n]) != ns {
 			return fmt.Errorf("qg: TermTendency: layer %d has %d and %d points, the grid needs %d", n+1, len(dst[n]), len(q[n]), ns)
@@ -48,13 +48,13 @@ func (m *Model) TermTendency(term Term, dst, q [2][]complex128, t float64) error
 		us := [2]float64{m.ph.U1, m.ph.U2}
 		for n := range 2 {
 			for p := range ns {
-				k := g.K[p%g.Nkx] * g.Keep[p]
+				k := g.k[p%g.Nkx] * g.keep[p]
 				dst[n][p] = -(mulI(k*us[n], q[n][p]) + mulI(k*qy[n], psi[n][p]))
 			}
 		}
 	case TermDrag:
 		for p := range ns {
-			dst[1][p] = scale(m.cfg.Drag*g.K2[p]*g.Keep[p], psi[1][p])
+			dst[1][p] = scale(m.cfg.Drag*g.k2[p]*g.keep[p], psi[1][p])
 		}
 	case TermHyperviscosity:
 		if m.hyper != nil {
@@ -93,7 +93,7 @@ func (m *Model) TermTendency(term Term, dst, q [2][]complex128, t float64) error
 				}
 				m.plan.Forward(dst[n], m.lw[0].fu)
 				for p := range ns {
-					dst[n][p] = scale(g.Keep[p], dst[n][p])
+					dst[n][p] = scale(g.keep[p], dst[n][p])
 				}
 			}
 		}
@@ -117,7 +117,7 @@ func (m *Model) TermTendency(term Term, dst, q [2][]complex128, t float64) error
 		}
 		for n := range 2 {
 			for p := range ns {
-				dst[n][p] = scale(g.Keep[p], dst[n][p])
+				dst[n][p] = scale(g.keep[p], dst[n][p])
 			}
 		}
 	case TermSource:
@@ -152,6 +152,6 @@ func (m *Model) advection(dst []complex128, n int, psi, q []complex128) {
 	m.plan.Forward(lw.b, fv)
 	for p := range dst {
 		i, j := p%g.Nkx, p/g.Nkx
-		dst[p] = scale(-g.Keep[p], mulI(g.K[i], lw.a[p])+mulI(g.L[j], lw.b[p]))
+		dst[p] = scale(-g.keep[p], mulI(g.k[i], lw.a[p])+mulI(g.l[j], lw.b[p]))
 	}
 }

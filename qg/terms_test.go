@@ -44,7 +44,7 @@ func TestTermTendencySum(t *testing.T) {
 				}
 			}
 		}
-		ns := len(m.Grid().K2)
+		ns := m.Grid().Len()
 		full := [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
 		psi := [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
 		var rates [NumTerms]float64
@@ -80,7 +80,7 @@ func TestTermTendencySum(t *testing.T) {
 		m.Inverter().InvertAll(psi, q)
 		g := m.Grid()
 		for p := range one[1] {
-			want := complex(c.Drag*g.K2[p]*g.Keep[p], 0) * psi[1][p]
+			want := complex(c.Drag*g.k2[p]*g.keep[p], 0) * psi[1][p]
 			if one[0][p] != 0 || math.Abs(real(one[1][p]-want))+math.Abs(imag(one[1][p]-want)) > 1e-12*math.Abs(real(want))+1e-30 {
 				t.Fatalf("drag term at %d: got %v, %v want 0, %v", p, one[0][p], one[1][p], want)
 			}
@@ -94,7 +94,7 @@ func TestTermSourceHasNoTendency(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	q := [2][]complex128{make([]complex128, len(m.Grid().K2)), make([]complex128, len(m.Grid().K2))}
+	q := [2][]complex128{make([]complex128, m.Grid().Len()), make([]complex128, m.Grid().Len())}
 	if err := m.TermTendency(TermSource, q, q, 0); err == nil {
 		t.Fatal("TermTendency(TermSource) gave no error")
 	}

@@ -20,7 +20,7 @@ func BenchmarkIncrement(b *testing.B) {
 				wc := DefaultConfig()
 				wc.Kind = kind
 				s := newNoise(b, wc, m)
-				dq := pair(len(m.Grid().K2))
+				dq := pair(m.Grid().Len())
 				b.ResetTimer()
 				for i := 0; b.Loop(); i++ {
 					s.Increment(dq, float64(i)*qc.Dt, qc.Dt)
@@ -41,7 +41,7 @@ func BenchmarkTrain(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	dq := pair(len(m.Grid().K2))
+	dq := pair(m.Grid().Len())
 	for i := 0; b.Loop(); i++ {
 		tr.AddTendency(dq, float64(i)*60)
 	}

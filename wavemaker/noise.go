@@ -71,10 +71,10 @@ func NewNoise(cfg Config, m *qg.Model) (*Noise, error) {
 		buf:   make([]float64, g.Nx*g.Ny),
 		spec:  make([]complex128, g.Ny*g.Nkx),
 	}
-	a := energyKernel(m.Inverter(), ph, len(g.K2), s.vec)
+	a := energyKernel(m.Inverter(), ph, g.Len(), s.vec)
 	var sum float64
 	for _, p := range s.modes {
-		sum += g.Weight[p] * a[p]
+		sum += g.Weight(p) * a[p]
 	}
 	s.kernel = float64(g.Nx*g.Ny) * meanSquare(s.mask) * sum
 	if !(s.kernel > 0) {

@@ -21,9 +21,10 @@ func TestEnergyKernelClosedForm(t *testing.T) {
 	m := newModel(t, qc)
 	g, ph := m.Grid(), m.Physics()
 	for _, v := range []Vertical{Upper, Lower, Barotropic, Baroclinic} {
-		a := energyKernel(m.Inverter(), ph, len(g.K2), verticalVector(v, ph))
-		for p, k2 := range g.K2 {
-			if k2 == 0 || g.Keep[p] == 0 {
+		a := energyKernel(m.Inverter(), ph, g.Len(), verticalVector(v, ph))
+		for p := range g.Len() {
+			k2 := g.K2(p)
+			if k2 == 0 || g.Keep(p) == 0 {
 				if a[p] != 0 {
 					t.Fatalf("%s: kernel %g at a mode without energy (p = %d)", v, a[p], p)
 				}
@@ -80,7 +81,7 @@ func TestWhiteNormalisation(t *testing.T) {
 			wc := testNoiseConfig()
 			wc.Vertical, wc.Mask, wc.Band, wc.Seed = c.vert, c.mask, c.band, c.seed
 			s := newNoise(t, wc, m)
-			ns := len(m.Grid().K2)
+			ns := m.Grid().Len()
 			dq, psi := pair(ns), pair(ns)
 			const n = 3000
 			var w welford
@@ -176,7 +177,7 @@ func TestRedAutocorrelation(t *testing.T) {
 	wc.Kind, wc.CorrelationTime = Red, tau
 	wc.Mask = MaskConfig{Kind: Patch, X: 4e6, Y: 2e6, WidthX: 1.5e6, WidthY: 2e6}
 	s := newNoise(t, wc, m)
-	ns := len(m.Grid().K2)
+	ns := m.Grid().Len()
 	dq := pair(ns)
 	hist := make([][]complex128, lag+1) // tendencies at the last lag+1 steps
 	for i := range hist {
@@ -239,7 +240,7 @@ func TestRedNormalisation(t *testing.T) {
 			wc := testNoiseConfig()
 			wc.Kind, wc.CorrelationTime = Red, tau
 			s := newNoise(t, wc, m)
-			ns := len(m.Grid().K2)
+			ns := m.Grid().Len()
 			dq, psi := pair(ns), pair(ns)
 			const n = 10000
 			xs := make([]float64, n)
@@ -284,7 +285,7 @@ func TestOUIntegralVar(t *testing.T) {
 func TestSeed(t *testing.T) {
 	for _, kind := range []Kind{White, Red} {
 		m := newModel(t, testModelConfig(3600, 1))
-		ns := len(m.Grid().K2)
+		ns := m.Grid().Len()
 		draw := func(seed uint64) [][2][]complex128 {
 			wc := testNoiseConfig()
 			wc.Kind, wc.CorrelationTime, wc.Seed = kind, 86400, seed
@@ -374,17 +375,17 @@ func TestRedInjectionLinearResponse(t *testing.T) {
 	m := newModel(t, qc)
 	s := newNoise(t, wc, m)
 	g := m.Grid()
-	a := energyKernel(m.Inverter(), m.Physics(), len(g.K2), s.vec)
+	a := energyKernel(m.Inverter(), m.Physics(), g.Len(), s.vec)
 	nu := qc.Dissipation.Viscosity
 	h := dt / tau
 	aa := math.Exp(-h)
 	var disc, cont, den float64
 	for _, p := range s.modes {
-		w := g.Weight[p] * a[p]
-		z := nu * g.K2[p] * dt
+		w := g.Weight(p) * a[p]
+		z := nu * g.K2(p) * dt
 		d := 1 - z + z*z/2 - z*z*z/6 + z*z*z*z/24
 		disc += w * tau * ((1-aa)*(1-aa)*d/(1-d*aa) + h - 1 + aa) / dt
-		cont += w / (1 + nu*g.K2[p]*tau)
+		cont += w / (1 + nu*g.K2(p)*tau)
 		den += w
 	}
 	want := wc.InjectionRate * disc / den
@@ -412,9 +413,9 @@ func TestIncrementIsRealBandLimited(t *testing.T) {
 	wc.Mask = MaskConfig{Kind: Patch, X: 2e6, Y: 6e6, WidthX: 1.5e6, WidthY: 1e6}
 	wc.Vertical = Barotropic
 	s := newNoise(t, wc, m)
-	dq := pair(len(g.K2))
+	dq := pair(g.Len())
 	s.Increment(dq, 0, 3600)
-	back := make([]complex128, len(g.K2))
+	back := make([]complex128, g.Len())
 	plan := m.Plan()
 	grid := m.ToGrid(dq[0])
 	plan.Forward(back, grid)
@@ -424,8 +425,8 @@ func TestIncrementIsRealBandLimited(t *testing.T) {
 	}
 	for p, z := range dq[0] {
 		i, j := p%g.Nkx, p/g.Nkx
-		lambda := 2 * math.Pi / math.Sqrt(g.K2[p])
-		in := g.Keep[p] == 1 && g.K2[p] > 0 && lambda >= 8e5*(1-1e-9) && lambda <= 4e6*(1+1e-9)
+		lambda := 2 * math.Pi / math.Sqrt(g.K2(p))
+		in := g.Keep(p) == 1 && g.K2(p) > 0 && lambda >= 8e5*(1-1e-9) && lambda <= 4e6*(1+1e-9)
 		if in != (z != 0) {
 			t.Fatalf("mode (i, j) = (%d, %d), wavelength %.4g m: coefficient %v, in band %v", i, j, lambda, z, in)
 		}

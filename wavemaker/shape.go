@@ -55,15 +55,15 @@ func bandModes(g *qg.Grid, b BandConfig) []int {
 	for j := range g.Ny {
 		for i := range g.Nkx {
 			p := j*g.Nkx + i
-			if g.Keep[p] == 0 || g.K2[p] == 0 {
+			if g.Keep(p) == 0 || g.K2(p) == 0 {
 				continue
 			}
 			var k float64
 			switch b.Kind {
 			case ZonalBand:
-				k = g.K[i]
+				k = g.K(i)
 			default:
-				k = math.Sqrt(g.K2[p])
+				k = math.Sqrt(g.K2(p))
 			}
 			if k >= lo && k <= hi {
 				modes = append(modes, p)

@@ -12,7 +12,7 @@ func TestNoiseStateRestart(t *testing.T) {
 		wc := testNoiseConfig()
 		wc.Kind, wc.CorrelationTime = kind, 6*3600
 		a := newNoise(t, wc, m)
-		ns := len(m.Grid().K2)
+		ns := m.Grid().Len()
 		da, db := pair(ns), pair(ns)
 		for range 5 {
 			a.Increment(da, 0, 3600)

@@ -55,7 +55,8 @@ func NewTrain(cfg Config, m *qg.Model) (*Train, error) {
 	cs, sn := make([]complex128, g.Ny*g.Nkx), make([]complex128, g.Ny*g.Nkx)
 	plan.Forward(cs, cosF)
 	plan.Forward(sn, sinF)
-	for p, keep := range g.Keep {
+	for p := range g.Len() {
+		keep := g.Keep(p)
 		if keep == 0 || (cs[p] == 0 && sn[p] == 0) {
 			continue
 		}

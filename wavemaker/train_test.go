@@ -58,7 +58,7 @@ func TestTrainPattern(t *testing.T) {
 	c := trainConfig()
 	tr := newTrain(t, c, m)
 	g := m.Grid()
-	ns := len(g.K2)
+	ns := g.Len()
 	k, l, om := 2*math.Pi/c.Train.WavelengthX, 2*math.Pi/c.Train.WavelengthY, c.Train.Frequency
 	delta := m.Config().Delta
 	for _, tt := range []float64{0, 0.37 * 86400, 2 * 86400} {
@@ -90,8 +90,8 @@ func TestTrainPattern(t *testing.T) {
 			}
 		}
 		bi, bj := bp%g.Nkx, bp/g.Nkx
-		if math.Abs(g.K[bi]-k) > 1e-12*k || math.Abs(g.L[bj]-l) > 1e-12*math.Abs(l) {
-			t.Errorf("t = %g s: spectrum peaks at (k, l) = (%g, %g) rad/m, want (%g, %g)", tt, g.K[bi], g.L[bj], k, l)
+		if math.Abs(g.K(bi)-k) > 1e-12*k || math.Abs(g.L(bj)-l) > 1e-12*math.Abs(l) {
+			t.Errorf("t = %g s: spectrum peaks at (k, l) = (%g, %g) rad/m, want (%g, %g)", tt, g.K(bi), g.L(bj), k, l)
 		}
 	}
 }
@@ -105,7 +105,7 @@ func TestTrainPeriod(t *testing.T) {
 	c := trainConfig()
 	tr := newTrain(t, c, m)
 	g := m.Grid()
-	ns := len(g.K2)
+	ns := g.Len()
 	period := 2 * math.Pi / c.Train.Frequency
 	t0 := 0.81 * 86400
 	a := tendencyAt(tr, ns, t0)
@@ -138,7 +138,7 @@ func TestTrainNoMask(t *testing.T) {
 	c.Train.WavelengthX, c.Train.WavelengthY = 16e6/3, 0
 	tr := newTrain(t, c, m)
 	g := m.Grid()
-	dq := tendencyAt(tr, len(g.K2), 0)
+	dq := tendencyAt(tr, g.Len(), 0)
 	want := c.Train.Amplitude * float64(g.Nx*g.Ny) / 2
 	for p, z := range dq[0] {
 		target := 0.0

@@ -13,11 +13,12 @@ import (
 // spectral fields a, b, the shift applied exactly in spectral space.
 func shiftCorrelation(g *qg.Grid, a, b []complex128, sx, sy float64) float64 {
 	var s float64
-	for p, w := range g.Weight {
+	for p := range g.Len() {
+		w := g.Weight(p)
 		if w == 0 {
 			continue
 		}
-		k, l := g.K[p%g.Nkx], g.L[p/g.Nkx]
+		k, l := g.K(p%g.Nkx), g.L(p/g.Nkx)
 		z := b[p] * cmplx.Exp(complex(0, -(k*sx+l*sy)))
 		s += w * (real(a[p])*real(z) + imag(a[p])*imag(z))
 	}

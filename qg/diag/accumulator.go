@@ -115,7 +115,7 @@ func New(m *qg.Model, opt Options) (*Accumulator, error) {
 	g := m.Grid()
 	a := &Accumulator{m: m, g: g, ph: m.Physics(), cfg: cfg, opt: opt, plan: plan, mode: m.BlockMode()}
 	a.raw = a.mode == qg.Fixed && !opt.Transient
-	ns, np := len(g.K2), g.Nx*g.Ny
+	ns, np := g.Len(), g.Nx*g.Ny
 	a.spec = make([]complex128, ns)
 	if b, ok := m.BlockStreamfunction(); ok {
 		a.blkPsi = clonePair(b)
@@ -136,7 +136,7 @@ func New(m *qg.Model, opt Options) (*Accumulator, error) {
 			}
 			plan.Forward(a.pat[n], opt.Pattern[n])
 			for p := range ns {
-				a.pat[n][p] *= complex(g.Keep[p], 0)
+				a.pat[n][p] *= complex(g.Keep(p), 0)
 			}
 			a.pat[n][0] = 0
 		}
@@ -264,15 +264,15 @@ func (a *Accumulator) gridFields(psi, q [2][]complex128) {
 		a.spec[0] = 0
 		a.plan.Inverse(a.q[n], a.spec)
 		for p, s := range psi[n] {
-			a.spec[p] = mulI(-g.L[p/nk], s)
+			a.spec[p] = mulI(-g.L(p/nk), s)
 		}
 		a.plan.Inverse(a.u[n], a.spec)
 		for p, s := range psi[n] {
-			a.spec[p] = mulI(g.K[p%nk], s)
+			a.spec[p] = mulI(g.K(p%nk), s)
 		}
 		a.plan.Inverse(a.v[n], a.spec)
 		for p, s := range psi[n] {
-			a.spec[p] = complex(-g.K2[p], 0) * s
+			a.spec[p] = complex(-g.K2(p), 0) * s
 		}
 		a.plan.Inverse(a.z[n], a.spec)
 	}
@@ -341,7 +341,8 @@ func (a *Accumulator) field(n int, get func(c *cell) float64) []float64 {
 // spectra and the reference state).
 func (a *Accumulator) spectral(psi [2][]complex128) {
 	w := complex(1/float64(a.n), 0)
-	for p, keep := range a.g.Keep {
+	for p := range a.g.Len() {
+		keep := a.g.Keep(p)
 		if keep == 0 {
 			continue
 		}
@@ -364,7 +365,8 @@ func (a *Accumulator) inner(x, y [2][]complex128) float64 {
 
 func innerProduct(g *qg.Grid, ph qg.Physics, norm Norm, x, y [2][]complex128) float64 {
 	var s float64
-	for p, w := range g.Weight {
+	for p := range g.Len() {
+		w := g.Weight(p)
 		if w == 0 {
 			continue
 		}
@@ -373,7 +375,7 @@ func innerProduct(g *qg.Grid, ph qg.Physics, norm Norm, x, y [2][]complex128) fl
 			s += w * (ph.W1*dotc(a1, b1) + ph.W2*dotc(a2, b2))
 			continue
 		}
-		s += w * (g.K2[p]*(ph.W1*dotc(a1, b1)+ph.W2*dotc(a2, b2)) + ph.W1*ph.F1*dotc(a1-a2, b1-b2))
+		s += w * (g.K2(p)*(ph.W1*dotc(a1, b1)+ph.W2*dotc(a2, b2)) + ph.W1*ph.F1*dotc(a1-a2, b1-b2))
 	}
 	return s
 }

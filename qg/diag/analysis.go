@@ -61,14 +61,14 @@ func (a *Accumulator) convergence(dst []complex128, fx, fy []float64) {
 	a.plan.Forward(fxh, fx)
 	a.plan.Forward(dst, fy)
 	for p := range dst {
-		dst[p] = complex(-g.Keep[p], 0) * (mulI(g.K[p%nk], fxh[p]) + mulI(g.L[p/nk], dst[p]))
+		dst[p] = complex(-g.Keep(p), 0) * (mulI(g.K(p%nk), fxh[p]) + mulI(g.L(p/nk), dst[p]))
 	}
 }
 
 // analyse derives the eddy fluxes, their convergences and the tendencies
 // they induce, and the reference state.
 func (a *Accumulator) analyse() *analysis {
-	ns := len(a.g.K2)
+	ns := a.g.Len()
 	an := &analysis{}
 	pair := func() [2][]complex128 { return [2][]complex128{make([]complex128, ns), make([]complex128, ns)} }
 	an.conv, an.convZ, an.conv2 = pair(), pair(), pair()
@@ -116,11 +116,11 @@ func (a *Accumulator) jacobian(dst, psi, q []complex128) {
 	np := len(a.tau)
 	u, v, qq := make([]float64, np), make([]float64, np), make([]float64, np)
 	for p, s := range psi {
-		a.spec[p] = mulI(-g.L[p/nk], s)
+		a.spec[p] = mulI(-g.L(p/nk), s)
 	}
 	a.plan.Inverse(u, a.spec)
 	for p, s := range psi {
-		a.spec[p] = mulI(g.K[p%nk], s)
+		a.spec[p] = mulI(g.K(p%nk), s)
 	}
 	a.plan.Inverse(v, a.spec)
 	a.plan.Inverse(qq, q)
@@ -134,7 +134,7 @@ func (a *Accumulator) jacobian(dst, psi, q []complex128) {
 // termTendency returns the streamfunction tendency of one model term on the
 // reference PV state.
 func (a *Accumulator) termTendency(term qg.Term, refQ [2][]complex128) [2][]complex128 {
-	ns := len(a.g.K2)
+	ns := a.g.Len()
 	dq := [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
 	if err := a.m.TermTendency(term, dq, refQ, a.tLast); err != nil {
 		panic("diag: " + err.Error()) // only TermSource or a size mismatch, neither possible here
@@ -144,7 +144,7 @@ func (a *Accumulator) termTendency(term qg.Term, refQ [2][]complex128) [2][]comp
 
 // streamTendency inverts a PV tendency.
 func (a *Accumulator) streamTendency(dq [2][]complex128) [2][]complex128 {
-	ns := len(a.g.K2)
+	ns := a.g.Len()
 	ps := [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
 	a.m.Inverter().InvertAll(ps, dq)
 	return ps

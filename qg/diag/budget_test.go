@@ -43,7 +43,7 @@ func tstForcedRun(t testing.TB, nx, ny int) (*qg.Model, qg.Config) {
 		dx, dy := qg.PeriodicDistance(x, 2e6, cfg.Lx), qg.PeriodicDistance(y, cfg.Ly/2, cfg.Ly)
 		return 2e-10 * math.Exp(-(dx*dx+dy*dy)/(1e6*1e6)) * math.Cos(k*dx)
 	})
-	f := &tstWaveForcing{pat: make([]complex128, len(m.Grid().K2)), omega: 2 * math.Pi / (4 * day)}
+	f := &tstWaveForcing{pat: make([]complex128, m.Grid().Len()), omega: 2 * math.Pi / (4 * day)}
 	plan.Forward(f.pat, src)
 	m.AddForcing(f)
 	psi := tstRandomPsi(m.Grid(), rand.New(rand.NewPCG(11, 12)), 2e4, 6)
@@ -71,8 +71,9 @@ func TestEnergyBudgetCloses(t *testing.T) {
 		}
 		psi2 := m.SpectralStreamfunction()[1]
 		var d float64
-		for p, w := range g.Weight {
-			d += w * g.K2[p] * dotc(psi2[p], psi2[p])
+		for p := range g.Len() {
+			w := g.Weight(p)
+			d += w * g.K2(p) * dotc(psi2[p], psi2[p])
 		}
 		dragNow = append(dragNow, -cfg.Drag*ph.W2*d)
 	}

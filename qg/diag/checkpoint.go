@@ -86,7 +86,7 @@ func (a *Accumulator) UnmarshalBinary(data []byte) error {
 	case s.Transient != a.opt.Transient:
 		return fmt.Errorf("diag: accumulator state with Transient = %t, the options say %t", s.Transient, a.opt.Transient)
 	}
-	np, ns := a.g.Nx*a.g.Ny, len(a.g.K2)
+	np, ns := a.g.Nx*a.g.Ny, a.g.Len()
 	for n := range 2 {
 		if len(s.MPsi[n]) != np || len(s.Cells[n]) != cellFields*np ||
 			len(s.SMean[n]) != ns || len(s.FMean[n]) != ns || len(s.First[n]) != ns || len(s.Last[n]) != ns {

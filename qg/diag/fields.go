@@ -94,13 +94,13 @@ func (a *Accumulator) Fields() Fields {
 		v := a.field(n, func(c *cell) float64 { return c.mv })
 		if a.mode == qg.Fixed {
 			bp, bq := grid(a.blkPsi[n]), grid(a.blkQ[n])
-			bs := make([]complex128, len(g.K2))
+			bs := make([]complex128, g.Len())
 			for p, s := range a.blkPsi[n] {
-				bs[p] = mulI(-g.L[p/g.Nkx], s)
+				bs[p] = mulI(-g.L(p/g.Nkx), s)
 			}
 			bu := grid(bs)
 			for p, s := range a.blkPsi[n] {
-				bs[p] = mulI(g.K[p%g.Nkx], s)
+				bs[p] = mulI(g.K(p%g.Nkx), s)
 			}
 			bv := grid(bs)
 			for i := range psi {
@@ -177,7 +177,7 @@ func (a *Accumulator) EddyForcing(conv, height [2][]float64) error {
 		}
 		return nil
 	}
-	ns := len(a.g.K2)
+	ns := a.g.Len()
 	c := [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
 	w := 1 / float64(a.n)
 	fx, fy := make([]float64, np), make([]float64, np)

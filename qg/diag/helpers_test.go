@@ -69,7 +69,7 @@ func tstDipole(cfg qg.Config, amp, r, d, x0, y0 float64) []float64 {
 func tstRandomPsi(g *qg.Grid, rng *rand.Rand, amp float64, kmax int) [2][]complex128 {
 	var s [2][]complex128
 	for n := range 2 {
-		s[n] = make([]complex128, len(g.K2))
+		s[n] = make([]complex128, g.Len())
 		for p := range s[n] {
 			i, j := p%g.Nkx, p/g.Nkx
 			jj := j

@@ -49,7 +49,7 @@ func (a *Accumulator) EddyField(name string, dst []float64) error {
 		a.plan.Inverse(dst, b.c[layer])
 		return nil
 	}
-	a.m.Inverter().InvertLayer(layer, b.ps[layer], b.c, 0, len(a.g.K2))
+	a.m.Inverter().InvertLayer(layer, b.ps[layer], b.c, 0, a.g.Len())
 	a.plan.Inverse(dst, b.ps[layer])
 	zc := a.cfg.F0 / qg.Gravity * day
 	for i := range dst {
@@ -98,7 +98,7 @@ func parseEddyField(name string) (part, layer int, height, ok bool) {
 // liveBuffers returns EddyField's work buffers, making them the first time.
 func (a *Accumulator) liveBuffers() *liveBuf {
 	if a.live == nil {
-		np, ns := len(a.tau), len(a.g.K2)
+		np, ns := len(a.tau), a.g.Len()
 		b := &liveBuf{fx: make([]float64, np), fy: make([]float64, np), fxh: make([]complex128, ns)}
 		for n := range 2 {
 			b.c[n] = make([]complex128, ns)
@@ -143,6 +143,6 @@ func (a *Accumulator) liveConvergence(b *liveBuf, part, n int) {
 		f = [2]float64{-a.ph.F1, a.ph.F2}[n] // F_n (ψ_m − ψ_n) = ∓F_n (ψ1 − ψ2)
 	}
 	for p := range dst {
-		dst[p] = complex(-f*g.Keep[p], 0) * (mulI(g.K[p%nk], b.fxh[p]) + mulI(g.L[p/nk], dst[p]))
+		dst[p] = complex(-f*g.Keep(p), 0) * (mulI(g.K(p%nk), b.fxh[p]) + mulI(g.L(p/nk), dst[p]))
 	}
 }

@@ -37,14 +37,14 @@ type Projection struct {
 // product norm. Both must be truncated to the retained modes. A pattern
 // that is zero gives the zero Projection.
 func Fit(g *qg.Grid, ph qg.Physics, norm Norm, x, p [2][]complex128) Projection {
-	ns := len(g.K2)
+	ns := g.Len()
 	nk := g.Nkx
 	dx := [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
 	dy := [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
 	for n := range 2 {
 		for q, z := range p[n] {
-			dx[n][q] = mulI(g.K[q%nk], z)
-			dy[n][q] = mulI(g.L[q/nk], z)
+			dx[n][q] = mulI(g.K(q%nk), z)
+			dy[n][q] = mulI(g.L(q/nk), z)
 		}
 	}
 	pats := [3][2][]complex128{p, dx, dy}

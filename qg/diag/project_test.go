@@ -11,10 +11,10 @@ import (
 func tstSpectral(plan *fft.Plan2D, g *qg.Grid, f [2][]float64) [2][]complex128 {
 	var s [2][]complex128
 	for n := range 2 {
-		s[n] = make([]complex128, len(g.K2))
+		s[n] = make([]complex128, g.Len())
 		plan.Forward(s[n], f[n])
 		for p := range s[n] {
-			s[n][p] *= complex(g.Keep[p], 0)
+			s[n][p] *= complex(g.Keep(p), 0)
 		}
 		s[n][0] = 0
 	}
@@ -44,7 +44,7 @@ func TestFitKnownTendencies(t *testing.T) {
 	P := tstSpectral(plan, g, [2][]float64{dip, dip})
 	for _, norm := range []Norm{EnergyNorm, LayerNorm} {
 		t.Run(string(norm), func(t *testing.T) {
-			self := [2][]complex128{make([]complex128, len(g.K2)), make([]complex128, len(g.K2))}
+			self := [2][]complex128{make([]complex128, g.Len()), make([]complex128, g.Len())}
 			for n := range 2 {
 				for p := range self[n] {
 					self[n][p] = P[n][p] / day

@@ -62,8 +62,9 @@ func (a *Accumulator) Spectra() Spectra {
 func spectra(g *qg.Grid, ph qg.Physics, mom func(p int) (a11, a22, a12 float64)) Spectra {
 	dk := 2 * math.Pi / math.Min(g.Lx, g.Ly)
 	var kmax float64
-	for p, k2 := range g.K2 {
-		if g.Keep[p] != 0 {
+	for p := range g.Len() {
+		k2 := g.K2(p)
+		if g.Keep(p) != 0 {
 			kmax = math.Max(kmax, math.Sqrt(k2))
 		}
 	}
@@ -75,11 +76,12 @@ func spectra(g *qg.Grid, ph qg.Physics, mom func(p int) (a11, a22, a12 float64))
 		s.K[b] = float64(b) * dk
 	}
 	w1, w2 := ph.W1, ph.W2
-	for p, wt := range g.Weight {
-		if wt == 0 || g.K2[p] == 0 {
+	for p := range g.Len() {
+		wt := g.Weight(p)
+		if wt == 0 || g.K2(p) == 0 {
 			continue
 		}
-		k2 := g.K2[p]
+		k2 := g.K2(p)
 		b := int(math.Floor(math.Sqrt(k2)/dk + 0.5))
 		a11, a22, a12 := mom(p)
 		tt := a11 + a22 - 2*a12                   // |ψ̂1 − ψ̂2|²

@@ -59,7 +59,7 @@ func TestSpectraParseval(t *testing.T) {
 	ke, ape := m.Energy()
 	check("current state", SpectraOf(g, ph, m.SpectralStreamfunction()), ke, ape)
 
-	mean := [2][]complex128{make([]complex128, len(g.K2)), make([]complex128, len(g.K2))}
+	mean := [2][]complex128{make([]complex128, g.Len()), make([]complex128, g.Len())}
 	for s := range ns {
 		addTo(mean, states[s])
 	}

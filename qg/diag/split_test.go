@@ -13,7 +13,7 @@ import (
 // independently of the package: spectral derivatives from the domain's
 // wavenumbers and the PV definition of DESIGN §2, q1 = ∇²ψ1 + F1(ψ2 − ψ1).
 func tstGridded(g *qg.Grid, ph qg.Physics, plan *fft.Plan2D, psi [2][]complex128, n int) (p, u, v, q []float64) {
-	ns, np := len(g.K2), g.Nx*g.Ny
+	ns, np := g.Len(), g.Nx*g.Ny
 	s := make([]complex128, ns)
 	out := func(f func(i, j int, z complex128) complex128) []float64 {
 		for idx := range s {

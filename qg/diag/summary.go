@@ -111,7 +111,7 @@ func (a *Accumulator) Summary() Summary {
 		s.Eddy, s.EddyVorticity, s.EddyInterface = fit(an.psit), fit(an.psitZ), fit(an.psit2)
 
 		mf := a.termTendency(qg.TermShear, an.refQ)
-		adv := [2][]complex128{make([]complex128, len(a.g.K2)), make([]complex128, len(a.g.K2))}
+		adv := [2][]complex128{make([]complex128, a.g.Len()), make([]complex128, a.g.Len())}
 		for n := range 2 {
 			a.jacobian(adv[n], an.refPsi[n], an.refQ[n])
 		}
@@ -135,7 +135,7 @@ func (a *Accumulator) Summary() Summary {
 		s.Forcing = rate(a.streamTendency(a.fMean))
 
 		if a.mode != qg.Fixed && a.tLast > a.tFirst {
-			d := [2][]complex128{make([]complex128, len(a.g.K2)), make([]complex128, len(a.g.K2))}
+			d := [2][]complex128{make([]complex128, a.g.Len()), make([]complex128, a.g.Len())}
 			for n := range 2 {
 				for p := range d[n] {
 					d[n][p] = (a.last[n][p] - a.first[n][p]) / complex(a.tLast-a.tFirst, 0)
