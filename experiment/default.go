@@ -58,7 +58,7 @@ func StormTrack() Config {
 	m.Ld, m.Delta = 7e5, 1
 	m.U1, m.U2 = 16, 4
 	m.Drag = 1 / (5 * 86400.0)
-	m.Dissipation = qg.Dissipation{Kind: qg.CutoffFilter, FilterTime: 3 * 3600, FilterCutoff: 0.65, FilterOrder: 4}
+	m.ScaleSelective = qg.ScaleSelective{Kind: qg.CutoffFilter, FilterTime: 3 * 3600, FilterCutoff: 0.65, FilterOrder: 4}
 	m.Sponge = qg.Sponge{Rate: 1 / (0.5 * 86400), Width: 6e6, X: 17e6}
 	m.Dt = 900
 	m.Scheme = qg.RK4

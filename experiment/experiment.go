@@ -87,17 +87,23 @@ type Progress struct {
 	Residual float64   // d(KE+APE)/dt minus the sum of the rates, m² s⁻³
 }
 
-// String prints the progress line: energies (m² s⁻²), the CFL number, and
-// after the bar the mean rate of each budget term since the last line
-// (m² s⁻³): injection by the wave source, conversion from the shear, work of
-// the block's maintenance, Ekman drag, scale-selective dissipation, sponge,
-// and the residual d(KE+APE)/dt − Σ rates of the books.
+// ProgressUnits is the line a run prints before its progress lines, giving
+// the units of their numbers.
+const ProgressUnits = "progress: model day; KE, APE in m² s⁻²; CFL number; after the bar, the mean rate of each energy-budget term since the previous line, m² s⁻³"
+
+// String prints the progress line: the model day, the energies (m² s⁻²),
+// the CFL number, and after the bar the mean rate of each budget term since
+// the last line (m² s⁻³), named as the qg.Terms are — injection by the
+// external forcing (the wave source), conversion from the imposed shear,
+// the block's maintenance, Ekman drag, scale-selective dissipation, the
+// sponge — and the residual d(KE+APE)/dt − Σ rates of the books (the
+// advection term, which only exchanges energy, is in the sum but not
+// shown).
 func (p Progress) String() string {
 	r := &p.Rates
-	return fmt.Sprintf("day %6.1f  KE %7.4g  APE %7.4g  CFL %5.3f | inj %9.3g  shear %9.3g  block %9.3g  drag %9.3g  diss %9.3g  sponge %9.3g  resid %8.2g",
-		p.Day, p.KE, p.APE, p.CFL, r[qg.TermSource]+r[qg.TermForcing], r[qg.TermShear],
-		r[qg.TermBlockForcing]+r[qg.TermRelaxation], r[qg.TermDrag],
-		r[qg.TermFilter]+r[qg.TermHyperviscosity], r[qg.TermSponge], p.Residual)
+	return fmt.Sprintf("day %6.1f  KE %7.4g  APE %7.4g  CFL %5.3f | injection %9.3g  shear %9.3g  maintenance %9.3g  drag %9.3g  scale_selective %9.3g  sponge %9.3g  residual %8.2g",
+		p.Day, p.KE, p.APE, p.CFL, r[qg.TermInjection], r[qg.TermShear], r[qg.TermMaintenance], r[qg.TermDrag],
+		r[qg.TermScaleSelective], r[qg.TermSponge], p.Residual)
 }
 
 // StepsPerDay returns the number of steps in a day of model time, rounded.

@@ -72,7 +72,7 @@ func checkBudget(t *testing.T, s diag.Summary) {
 	var src, sink float64
 	for name, r := range en.Rates {
 		switch name {
-		case qg.TermDrag.String(), qg.TermFilter.String(), qg.TermHyperviscosity.String(), qg.TermSponge.String():
+		case qg.TermDrag.String(), qg.TermScaleSelective.String(), qg.TermSponge.String():
 			sink += r
 		default:
 			src += r

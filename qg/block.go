@@ -84,7 +84,8 @@ func (m *Model) SetBlock(b Block) error {
 	bs.psi[0][0], bs.psi[1][0] = 0, 0
 	m.inv.PV(bs.q, bs.psi)
 	for n := range 2 {
-		bs.qp[n] = m.ToGrid(bs.q[n])
+		bs.qp[n] = make([]float64, np)
+		m.plan.Inverse(bs.qp[n], bs.q[n])
 		if b.Mode == Fixed {
 			bs.u[n], bs.v[n] = make([]float64, np), make([]float64, np)
 			m.velocity(&m.lw[0], bs.u[n], bs.v[n], bs.psi[n])

@@ -74,7 +74,7 @@ func TestCheckpointRefusesOtherConfiguration(t *testing.T) {
 		{"dt", func(c *Config) { c.Dt = 240 }},
 		{"scheme", func(c *Config) { c.Scheme = AB3 }},
 		{"sponge.rate", func(c *Config) { c.Sponge.Rate *= 2 }},
-		{"dissipation.filter_time", func(c *Config) { c.Dissipation.FilterTime *= 2 }},
+		{"scale_selective.filter_time", func(c *Config) { c.ScaleSelective.FilterTime *= 2 }},
 	} {
 		c := benchModel(t, 32, 1, RK4).Config()
 		tc.change(&c)

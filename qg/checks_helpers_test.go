@@ -15,8 +15,8 @@ func chkConfig(nx, ny int, lx, ly float64) Config {
 	return Config{
 		Nx: nx, Ny: ny, Lx: lx, Ly: ly,
 		F0: 1e-4, Beta: 0, Ld: 7e5, Delta: 1,
-		Dissipation: Dissipation{Kind: NoDissipation},
-		Dt:          1800, Scheme: RK4, MaxCFL: 1.5, Workers: 1,
+		ScaleSelective: ScaleSelective{Kind: NoScaleSelective},
+		Dt:             1800, Scheme: RK4, MaxCFL: 1.5, Workers: 1,
 	}
 }
 

@@ -14,24 +14,25 @@ const (
 	AB3 Scheme = "ab3" // third-order Adams–Bashforth, started with two RK4 steps
 )
 
-// DissipationKind names a scale-selective dissipation.
-type DissipationKind string
+// ScaleSelectiveKind names a scale-selective dissipation.
+type ScaleSelectiveKind string
 
 // Scale-selective dissipations.
 const (
-	// NoDissipation leaves the small scales undamped (inviscid runs).
-	NoDissipation DissipationKind = "none"
+	// NoScaleSelective leaves the small scales undamped (inviscid runs).
+	NoScaleSelective ScaleSelectiveKind = "none"
 	// CutoffFilter damps modes above a cutoff wavenumber at a rate that rises
 	// as a power of the distance to the cutoff, applied as an exact
 	// per-step factor exp(−λ(k)dt); it is independent of dt.
-	CutoffFilter DissipationKind = "filter"
+	CutoffFilter ScaleSelectiveKind = "filter"
 	// Hyperviscosity is the tendency −ν(−∇²)^p q on each layer's PV.
-	Hyperviscosity DissipationKind = "hyperviscosity"
+	Hyperviscosity ScaleSelectiveKind = "hyperviscosity"
 )
 
-// Dissipation configures the scale-selective dissipation.
-type Dissipation struct {
-	Kind DissipationKind `toml:"kind" json:"kind"`
+// ScaleSelective configures the scale-selective dissipation, whose energy
+// loss the Ledger books under TermScaleSelective.
+type ScaleSelective struct {
+	Kind ScaleSelectiveKind `toml:"kind" json:"kind"`
 	// FilterTime is the e-folding time (s) of the filter at the largest
 	// retained wavenumber.
 	FilterTime float64 `toml:"filter_time" json:"filter_time"`
@@ -69,9 +70,9 @@ type Config struct {
 	U1    float64 `toml:"u1" json:"u1"`       // imposed zonal flow, upper layer, m s⁻¹
 	U2    float64 `toml:"u2" json:"u2"`       // imposed zonal flow, lower layer, m s⁻¹
 
-	Drag        float64     `toml:"drag" json:"drag"` // linear Ekman drag rate on the lower layer, s⁻¹
-	Dissipation Dissipation `toml:"dissipation" json:"dissipation"`
-	Sponge      Sponge      `toml:"sponge" json:"sponge"`
+	Drag           float64        `toml:"drag" json:"drag"` // linear Ekman drag rate on the lower layer, s⁻¹
+	ScaleSelective ScaleSelective `toml:"scale_selective" json:"scale_selective"`
+	Sponge         Sponge         `toml:"sponge" json:"sponge"`
 
 	Dt      float64 `toml:"dt" json:"dt"`           // time step, s
 	Scheme  Scheme  `toml:"scheme" json:"scheme"`   // "rk4" or "ab3"
@@ -90,7 +91,7 @@ func DefaultConfig() Config {
 		F0: 1e-4, Beta: 1.6e-11, Ld: 7e5, Delta: 1,
 		U1: 10, U2: 4,
 		Drag: 1 / (5 * 86400.0),
-		Dissipation: Dissipation{
+		ScaleSelective: ScaleSelective{
 			Kind: CutoffFilter, FilterTime: 3600, FilterCutoff: 0.65, FilterOrder: 4,
 		},
 		Dt: 1800, Scheme: RK4, MaxCFL: 1.0, Workers: 1,
@@ -169,28 +170,28 @@ func (c *Config) Validate() error {
 	if c.Workers < 1 {
 		return &FieldError{"workers", c.Workers, "must be at least 1"}
 	}
-	d := c.Dissipation
+	d := c.ScaleSelective
 	switch d.Kind {
-	case NoDissipation:
+	case NoScaleSelective:
 	case CutoffFilter:
-		if err := positiveFinite("dissipation.filter_time", d.FilterTime); err != nil {
+		if err := positiveFinite("scale_selective.filter_time", d.FilterTime); err != nil {
 			return err
 		}
 		if !(d.FilterCutoff > 0 && d.FilterCutoff < 1) {
-			return &FieldError{"dissipation.filter_cutoff", d.FilterCutoff, "must lie strictly between 0 and 1"}
+			return &FieldError{"scale_selective.filter_cutoff", d.FilterCutoff, "must lie strictly between 0 and 1"}
 		}
-		if err := positiveFinite("dissipation.filter_order", d.FilterOrder); err != nil {
+		if err := positiveFinite("scale_selective.filter_order", d.FilterOrder); err != nil {
 			return err
 		}
 	case Hyperviscosity:
-		if err := positiveFinite("dissipation.viscosity", d.Viscosity); err != nil {
+		if err := positiveFinite("scale_selective.viscosity", d.Viscosity); err != nil {
 			return err
 		}
 		if d.Order < 1 || d.Order > 8 {
-			return &FieldError{"dissipation.order", d.Order, "must be an integer from 1 (Laplacian) to 8"}
+			return &FieldError{"scale_selective.order", d.Order, "must be an integer from 1 (Laplacian) to 8"}
 		}
 	default:
-		return &FieldError{"dissipation.kind", string(d.Kind), `must be "none", "filter" or "hyperviscosity"`}
+		return &FieldError{"scale_selective.kind", string(d.Kind), `must be "none", "filter" or "hyperviscosity"`}
 	}
 	if c.Sponge.Rate > 0 {
 		if err := positiveFinite("sponge.width", c.Sponge.Width); err != nil {

@@ -20,13 +20,13 @@ func TestHyperviscosityTimeStepLimit(t *testing.T) {
 		rate float64 // ν K_max⁴ dt
 		ok   bool
 	}{{2.0, true}, {3.5, false}} {
-		c.Dissipation = Dissipation{Kind: Hyperviscosity, Order: 2, Viscosity: tc.rate / (k2max * k2max * c.Dt)}
+		c.ScaleSelective = ScaleSelective{Kind: Hyperviscosity, Order: 2, Viscosity: tc.rate / (k2max * k2max * c.Dt)}
 		_, err := NewModel(c)
 		var fe *FieldError
 		if tc.ok && err != nil {
 			t.Errorf("rate·dt = %g: unexpected error %v", tc.rate, err)
 		}
-		if !tc.ok && (!errors.As(err, &fe) || fe.Field != "dissipation.viscosity") {
+		if !tc.ok && (!errors.As(err, &fe) || fe.Field != "scale_selective.viscosity") {
 			t.Errorf("rate·dt = %g: got %v, want a FieldError for dissipation.viscosity", tc.rate, err)
 		}
 	}

@@ -19,9 +19,9 @@ func TestConfigValidate(t *testing.T) {
 	}{
 		{"default", func(c *Config) {}, ""},
 		{"hyperviscosity", func(c *Config) {
-			c.Dissipation = Dissipation{Kind: Hyperviscosity, Viscosity: 1e16, Order: 2}
+			c.ScaleSelective = ScaleSelective{Kind: Hyperviscosity, Viscosity: 1e16, Order: 2}
 		}, ""},
-		{"no dissipation", func(c *Config) { c.Dissipation = Dissipation{Kind: NoDissipation} }, ""},
+		{"no dissipation", func(c *Config) { c.ScaleSelective = ScaleSelective{Kind: NoScaleSelective} }, ""},
 		{"ab3", func(c *Config) { c.Scheme = AB3 }, ""},
 		{"sponge", func(c *Config) { c.Sponge = Sponge{Rate: 1e-5, Width: 2e6, X: 1e6} }, ""},
 
@@ -50,18 +50,18 @@ func TestConfigValidate(t *testing.T) {
 		{"scheme unknown", func(c *Config) { c.Scheme = "leapfrog" }, "scheme"},
 		{"scheme empty", func(c *Config) { c.Scheme = "" }, "scheme"},
 		{"workers zero", func(c *Config) { c.Workers = 0 }, "workers"},
-		{"dissipation kind unknown", func(c *Config) { c.Dissipation.Kind = "smagorinsky" }, "dissipation.kind"},
-		{"dissipation kind empty", func(c *Config) { c.Dissipation.Kind = "" }, "dissipation.kind"},
-		{"filter time zero", func(c *Config) { c.Dissipation.FilterTime = 0 }, "dissipation.filter_time"},
-		{"filter cutoff one", func(c *Config) { c.Dissipation.FilterCutoff = 1 }, "dissipation.filter_cutoff"},
-		{"filter cutoff NaN", func(c *Config) { c.Dissipation.FilterCutoff = nan }, "dissipation.filter_cutoff"},
-		{"filter order negative", func(c *Config) { c.Dissipation.FilterOrder = -2 }, "dissipation.filter_order"},
+		{"scale_selective kind unknown", func(c *Config) { c.ScaleSelective.Kind = "smagorinsky" }, "scale_selective.kind"},
+		{"scale_selective kind empty", func(c *Config) { c.ScaleSelective.Kind = "" }, "scale_selective.kind"},
+		{"filter time zero", func(c *Config) { c.ScaleSelective.FilterTime = 0 }, "scale_selective.filter_time"},
+		{"filter cutoff one", func(c *Config) { c.ScaleSelective.FilterCutoff = 1 }, "scale_selective.filter_cutoff"},
+		{"filter cutoff NaN", func(c *Config) { c.ScaleSelective.FilterCutoff = nan }, "scale_selective.filter_cutoff"},
+		{"filter order negative", func(c *Config) { c.ScaleSelective.FilterOrder = -2 }, "scale_selective.filter_order"},
 		{"viscosity NaN", func(c *Config) {
-			c.Dissipation = Dissipation{Kind: Hyperviscosity, Viscosity: nan, Order: 2}
-		}, "dissipation.viscosity"},
+			c.ScaleSelective = ScaleSelective{Kind: Hyperviscosity, Viscosity: nan, Order: 2}
+		}, "scale_selective.viscosity"},
 		{"hyperviscosity order zero", func(c *Config) {
-			c.Dissipation = Dissipation{Kind: Hyperviscosity, Viscosity: 1e16, Order: 0}
-		}, "dissipation.order"},
+			c.ScaleSelective = ScaleSelective{Kind: Hyperviscosity, Viscosity: 1e16, Order: 0}
+		}, "scale_selective.order"},
 		{"sponge rate negative", func(c *Config) { c.Sponge.Rate = -1 }, "sponge.rate"},
 		{"sponge width zero", func(c *Config) { c.Sponge = Sponge{Rate: 1e-5, Width: 0, X: 1e6} }, "sponge.width"},
 		{"sponge wider than domain", func(c *Config) { c.Sponge = Sponge{Rate: 1e-5, Width: 2 * c.Lx, X: 1e6} }, "sponge.width"},

@@ -8,7 +8,7 @@ import "math"
 // in units of the largest retained one, κ² = (k·dx/(2π/3))² + (l·dy/(2π/3))²,
 // c the cutoff, s the order and τ_f the e-folding time at κ = 1.
 func (m *Model) setDissipation() {
-	d := m.cfg.Dissipation
+	d := m.cfg.ScaleSelective
 	g := m.g
 	switch d.Kind {
 	case Hyperviscosity:

@@ -1,45 +1,59 @@
 package qg
 
-import "fmt"
+import (
+	"encoding/json"
+	"fmt"
+)
 
 // Term names a term of the energy budget.
 type Term int
 
 // Energy budget terms. Each is booked as the energy it adds to the state
-// (negative for a loss), per unit mass, m² s⁻².
+// (negative for a loss), per unit mass, m² s⁻². The names (String) are the
+// same in the Ledger's JSON, the run's progress lines, the summaries and
+// the output files.
 const (
-	// TermAdvection is the work of the nonlinear advection. It vanishes up
-	// to rounding for the full flow; in the fixed-block mode it is the
-	// exchange of energy between the eddies and the prescribed block.
+	// TermAdvection ("advection") is the work of the nonlinear advection.
+	// It vanishes up to rounding for the full flow; in the fixed-block mode
+	// it is the exchange of energy between the eddies and the prescribed
+	// block.
 	TermAdvection Term = iota
-	// TermShear is the work of the imposed flow and background PV gradient:
-	// the conversion of the mean shear's available potential energy into
-	// eddy energy (β alone does no work).
+	// TermShear ("shear") is the work of the imposed flow and background PV
+	// gradient: the conversion of the mean shear's available potential
+	// energy into eddy energy (β alone does no work).
 	TermShear
-	// TermDrag is the Ekman drag on the lower layer.
+	// TermDrag ("drag") is the Ekman drag on the lower layer.
 	TermDrag
-	// TermHyperviscosity is the hyperviscous dissipation.
-	TermHyperviscosity
-	// TermFilter is the loss to the cutoff filter.
-	TermFilter
-	// TermSponge is the loss to the sponge band.
+	// TermScaleSelective ("scale_selective") is the loss to the
+	// scale-selective dissipation: the cutoff filter or the
+	// hyperviscosity, whichever the configuration's scale_selective.kind
+	// chooses.
+	TermScaleSelective
+	// TermSponge ("sponge") is the loss to the sponge band.
 	TermSponge
-	// TermRelaxation is the work of the relaxation towards the block.
-	TermRelaxation
-	// TermBlockForcing is the work of the steady forcing that holds the
-	// block in the forced mode.
-	TermBlockForcing
-	// TermForcing is the work of the deterministic Forcing hooks.
-	TermForcing
-	// TermSource is the energy injected by the stochastic Sources.
-	TermSource
+	// TermMaintenance ("maintenance") is the work of what maintains the
+	// block: the steady forcing of the forced mode or the relaxation of the
+	// relaxed mode.
+	TermMaintenance
+	// TermInjection ("injection") is the energy injected by the external
+	// PV forcing: the wave source and any Forcing, GridForcing or Source
+	// added to the model.
+	TermInjection
 	// NumTerms is the number of budget terms.
 	NumTerms
 )
 
 var termNames = [NumTerms]string{
-	"advection", "shear", "drag", "hyperviscosity", "filter", "sponge",
-	"relaxation", "block_forcing", "forcing", "source",
+	"advection", "shear", "drag", "scale_selective", "sponge", "maintenance", "injection",
+}
+
+// Terms returns every budget term, in order.
+func Terms() []Term {
+	t := make([]Term, NumTerms)
+	for i := range t {
+		t[i] = Term(i)
+	}
+	return t
 }
 
 func (t Term) String() string {
@@ -50,9 +64,50 @@ func (t Term) String() string {
 }
 
 // Ledger holds the energy each budget term has added since it was last
-// reset, m² s⁻². The sum over the terms equals the change of total energy
-// up to the time-discretisation error of the scheme.
+// reset, m² s⁻², indexed by Term. The sum over the terms equals the change
+// of total energy up to the time-discretisation error of the scheme. It
+// encodes to JSON as an object keyed by the terms' names.
 type Ledger [NumTerms]float64
+
+// Map returns the ledger keyed by the terms' names.
+func (l Ledger) Map() map[string]float64 {
+	m := make(map[string]float64, NumTerms)
+	for i, v := range l {
+		m[Term(i).String()] = v
+	}
+	return m
+}
+
+// MarshalJSON encodes the ledger as an object keyed by the terms' names.
+func (l Ledger) MarshalJSON() ([]byte, error) { return json.Marshal(l.Map()) }
+
+// UnmarshalJSON decodes an object written by MarshalJSON; an unknown name
+// is an error.
+func (l *Ledger) UnmarshalJSON(b []byte) error {
+	var m map[string]float64
+	if err := json.Unmarshal(b, &m); err != nil {
+		return err
+	}
+	*l = Ledger{}
+	for k, v := range m {
+		t, ok := TermNamed(k)
+		if !ok {
+			return fmt.Errorf("qg: ledger: unknown budget term %q", k)
+		}
+		l[t] = v
+	}
+	return nil
+}
+
+// TermNamed returns the term with the given name.
+func TermNamed(name string) (Term, bool) {
+	for i, n := range termNames {
+		if n == name {
+			return Term(i), true
+		}
+	}
+	return 0, false
+}
 
 // Sum returns the total over all terms.
 func (l *Ledger) Sum() float64 {

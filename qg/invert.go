@@ -13,8 +13,8 @@ type Inverter struct {
 	keep               []float64
 }
 
-// NewInverter precomputes the inversion coefficients on grid g.
-func NewInverter(g *Grid, ph Physics) *Inverter {
+// newInverter precomputes the inversion coefficients on grid g.
+func newInverter(g *Grid, ph Physics) *Inverter {
 	n := len(g.k2)
 	v := &Inverter{
 		a11: make([]float64, n), a12: make([]float64, n),
@@ -34,8 +34,18 @@ func NewInverter(g *Grid, ph Physics) *Inverter {
 	return v
 }
 
-// Invert sets psi from q on spectral points [lo, hi). psi and q must not alias.
-func (v *Inverter) Invert(psi, q [2][]complex128, lo, hi int) {
+// Invert sets psi from q on every spectral point. psi and q must not alias.
+func (v *Inverter) Invert(psi, q [2][]complex128) { v.invertRange(psi, q, 0, len(v.k2)) }
+
+// InvertLayer sets layer n's streamfunction dst (n = 0 upper, 1 lower) from
+// the PV q of both layers, with the same arithmetic as Invert. dst must not
+// alias q.
+func (v *Inverter) InvertLayer(n int, dst []complex128, q [2][]complex128) {
+	v.invertLayerRange(n, dst, q, 0, len(v.k2))
+}
+
+// invertRange sets psi from q on spectral points [lo, hi).
+func (v *Inverter) invertRange(psi, q [2][]complex128, lo, hi int) {
 	q1, q2 := q[0][lo:hi], q[1][lo:hi]
 	p1, p2 := psi[0][lo:hi], psi[1][lo:hi]
 	a11, a12, a21, a22 := v.a11[lo:hi], v.a12[lo:hi], v.a21[lo:hi], v.a22[lo:hi]
@@ -46,10 +56,8 @@ func (v *Inverter) Invert(psi, q [2][]complex128, lo, hi int) {
 	}
 }
 
-// InvertLayer sets layer n's streamfunction dst (n = 0 upper, 1 lower) from
-// the PV q of both layers on spectral points [lo, hi), with the same
-// arithmetic as Invert. dst must not alias q.
-func (v *Inverter) InvertLayer(n int, dst []complex128, q [2][]complex128, lo, hi int) {
+// invertLayerRange is InvertLayer on spectral points [lo, hi).
+func (v *Inverter) invertLayerRange(n int, dst []complex128, q [2][]complex128, lo, hi int) {
 	q1, q2, d := q[0][lo:hi], q[1][lo:hi], dst[lo:hi]
 	b1, b2 := v.a11[lo:hi], v.a12[lo:hi]
 	if n == 1 {
@@ -59,9 +67,6 @@ func (v *Inverter) InvertLayer(n int, dst []complex128, q [2][]complex128, lo, h
 		d[p] = complex(b1[p], 0)*q1[p] + complex(b2[p], 0)*q2[p]
 	}
 }
-
-// InvertAll sets psi from q on every spectral point.
-func (v *Inverter) InvertAll(psi, q [2][]complex128) { v.Invert(psi, q, 0, len(v.k2)) }
 
 // PV sets q from psi on every spectral point (the forward PV definition),
 // truncated to the retained modes:

@@ -125,7 +125,7 @@ func chkShift(t *testing.T, g *Grid, f0, f []complex128) (dx, dy, corr float64) 
 // n² grid of a square of side lOverA·a for a travel of `travel`·a in nst steps, and
 // returns the fitted speed, the minimum pattern correlation and the largest
 // meridional drift.
-func chkLambRun(t *testing.T, n int, lOverA, travel float64, nst int, kind DissipationKind) (speed, minCorr, maxDy float64) {
+func chkLambRun(t *testing.T, n int, lOverA, travel float64, nst int, kind ScaleSelectiveKind) (speed, minCorr, maxDy float64) {
 	const (
 		a = chkLambRadius
 		u = chkLambSpeed
@@ -135,7 +135,7 @@ func chkLambRun(t *testing.T, n int, lOverA, travel float64, nst int, kind Dissi
 	cfg.Beta, cfg.Delta = 0, 1
 	cfg.Dt = travel * a / u / float64(nst)
 	if kind == CutoffFilter {
-		cfg.Dissipation = Dissipation{Kind: CutoffFilter, FilterTime: 20 * cfg.Dt, FilterCutoff: 0.7, FilterOrder: 4}
+		cfg.ScaleSelective = ScaleSelective{Kind: CutoffFilter, FilterTime: 20 * cfg.Dt, FilterCutoff: 0.7, FilterOrder: 4}
 	}
 	m := chkModel(t, cfg)
 	g := m.Grid()
@@ -176,7 +176,7 @@ func TestLambDipoleTranslates(t *testing.T) {
 	if j := math.J1(chkLambKa); math.Abs(j) > 1e-12 {
 		t.Fatalf("J1(%v) = %g, not a zero", chkLambKa, j)
 	}
-	speed, minCorr, maxDy := chkLambRun(t, 256, lOverA, 2, 210, NoDissipation)
+	speed, minCorr, maxDy := chkLambRun(t, 256, lOverA, 2, 210, NoScaleSelective)
 	// Lamb (1932) §165a; Meleshko & van Heijst (1994): the dipole translates
 	// at its speed U, within 2 %.
 	if re := chkRelErr(speed, u); re > 0.02 {

@@ -82,7 +82,7 @@ func NewModel(cfg Config) (*Model, error) {
 	}
 	g := NewGrid(cfg.Nx, cfg.Ny, cfg.Lx, cfg.Ly)
 	ph := cfg.Physics()
-	m := &Model{cfg: cfg, ph: ph, g: g, inv: NewInverter(g, ph), workers: cfg.Workers}
+	m := &Model{cfg: cfg, ph: ph, g: g, inv: newInverter(g, ph), workers: cfg.Workers}
 	if err := m.newLayerWork(); err != nil {
 		return nil, fmt.Errorf("qg: transform: %w", err)
 	}
@@ -115,11 +115,6 @@ func (m *Model) Physics() Physics { return m.ph }
 
 // Inverter returns the PV inversion of the model.
 func (m *Model) Inverter() *Inverter { return m.inv }
-
-// Plan returns the model's transform plan. It is shared with the model, so
-// it must not be used while the model steps, and it is restricted to the
-// retained zonal wavenumbers (fft.Plan2D.SetColumns).
-func (m *Model) Plan() *fft.Plan2D { return m.plan }
 
 // Time returns the model time, s.
 func (m *Model) Time() float64 { return m.t }
@@ -160,9 +155,6 @@ func (m *Model) AddForcing(f Forcing) { m.forcings = append(m.forcings, f) }
 // AddSource adds a stochastic PV source.
 func (m *Model) AddSource(s Source) { m.sources = append(m.sources, s) }
 
-// SetTime sets the model time (for restarts).
-func (m *Model) SetTime(t float64) { m.t = t }
-
 // SetSpectralPV sets the state from spectral PV, truncated to the retained
 // modes, and restarts the AB3 history.
 func (m *Model) SetSpectralPV(q [2][]complex128) error {
@@ -182,7 +174,7 @@ func (m *Model) SetSpectralPV(q [2][]complex128) error {
 			m.q[n][p] = scale(m.g.keep[p], z)
 		}
 	}
-	m.inv.InvertAll(m.psi, m.q)
+	m.inv.Invert(m.psi, m.q)
 	m.nhist = 0
 	return nil
 }
@@ -225,25 +217,6 @@ func (m *Model) checkPhys(f []float64, what string) error {
 		}
 	}
 	return nil
-}
-
-// ToGrid transforms a spectral field to a new gridded field. Like every
-// transform of the model it ignores the zonal wavenumbers beyond those the
-// 2/3 rule retains.
-func (m *Model) ToGrid(s []complex128) []float64 {
-	f := make([]float64, m.g.Nx*m.g.Ny)
-	m.plan.Inverse(f, s)
-	return f
-}
-
-// PV returns the gridded PV of both layers (s⁻¹); in the fixed-block mode
-// the eddy PV.
-func (m *Model) PV() [2][]float64 { return [2][]float64{m.ToGrid(m.q[0]), m.ToGrid(m.q[1])} }
-
-// Streamfunction returns the gridded streamfunction of both layers (m² s⁻¹);
-// in the fixed-block mode that of the eddies.
-func (m *Model) Streamfunction() [2][]float64 {
-	return [2][]float64{m.ToGrid(m.psi[0]), m.ToGrid(m.psi[1])}
 }
 
 // checkLinearStability checks dt against the imposed flow's advective CFL
@@ -295,7 +268,7 @@ func (m *Model) checkLinearStability() error {
 			real = 6.0 / 11 // AB3 on the negative real axis (from memory)
 		}
 		if hmax*c.Dt > real {
-			return &FieldError{"dissipation.viscosity", c.Dissipation.Viscosity, fmt.Sprintf("the hyperviscous damping rate at the largest retained wavenumber, %.3g s⁻¹, is unstable with %s at dt = %g s; lower the viscosity below %.4g or dt below %.4g s", hmax, c.Scheme, c.Dt, c.Dissipation.Viscosity*real/(hmax*c.Dt), real/hmax)}
+			return &FieldError{"scale_selective.viscosity", c.ScaleSelective.Viscosity, fmt.Sprintf("the hyperviscous damping rate at the largest retained wavenumber, %.3g s⁻¹, is unstable with %s at dt = %g s; lower the viscosity below %.4g or dt below %.4g s", hmax, c.Scheme, c.Dt, c.ScaleSelective.Viscosity*real/(hmax*c.Dt), real/hmax)}
 		}
 	}
 	return nil
@@ -310,7 +283,7 @@ func (c *Config) CheckTimeStep() error {
 	}
 	g := NewGrid(c.Nx, c.Ny, c.Lx, c.Ly)
 	ph := c.Physics()
-	m := &Model{cfg: *c, ph: ph, g: g, inv: NewInverter(g, ph)}
+	m := &Model{cfg: *c, ph: ph, g: g, inv: newInverter(g, ph)}
 	m.setDissipation()
 	return m.checkLinearStability()
 }

@@ -69,16 +69,16 @@ func TestForcedModeIsSteady(t *testing.T) {
 	for _, c := range []struct {
 		name   string
 		scheme qg.Scheme
-		diss   qg.Dissipation
+		diss   qg.ScaleSelective
 	}{
-		{"rk4+filter", qg.RK4, qg.Dissipation{Kind: qg.CutoffFilter, FilterTime: 3600, FilterCutoff: 0.65, FilterOrder: 4}},
-		{"ab3+filter", qg.AB3, qg.Dissipation{Kind: qg.CutoffFilter, FilterTime: 3600, FilterCutoff: 0.65, FilterOrder: 4}},
-		{"rk4+hyperviscosity", qg.RK4, qg.Dissipation{Kind: qg.Hyperviscosity, Viscosity: 1e16, Order: 2}},
+		{"rk4+filter", qg.RK4, qg.ScaleSelective{Kind: qg.CutoffFilter, FilterTime: 3600, FilterCutoff: 0.65, FilterOrder: 4}},
+		{"ab3+filter", qg.AB3, qg.ScaleSelective{Kind: qg.CutoffFilter, FilterTime: 3600, FilterCutoff: 0.65, FilterOrder: 4}},
+		{"rk4+hyperviscosity", qg.RK4, qg.ScaleSelective{Kind: qg.Hyperviscosity, Viscosity: 1e16, Order: 2}},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			cfg := qg.DefaultConfig() // β, U1 = 10 ≠ U2 = 4 m/s, Ekman drag
 			cfg.Nx, cfg.Ny = 64, 32
-			cfg.Dissipation = c.diss
+			cfg.ScaleSelective = c.diss
 			cfg.Scheme = c.scheme
 			cfg.Dt = 1800
 			cfg.Sponge = qg.Sponge{Rate: 1 / 86400.0, Width: 3e6, X: 2e6}
@@ -124,7 +124,7 @@ func TestRelaxedModeEFolding(t *testing.T) {
 	cfg := qg.DefaultConfig()
 	cfg.Nx, cfg.Ny, cfg.Lx, cfg.Ly = 64, 64, 8e6, 8e6
 	cfg.Beta, cfg.U1, cfg.U2, cfg.Drag = 0, 0, 0, 0
-	cfg.Dissipation = qg.Dissipation{Kind: qg.NoDissipation}
+	cfg.ScaleSelective = qg.ScaleSelective{Kind: qg.NoScaleSelective}
 	cfg.Dt = 3600
 	tau := 3 * 86400.0
 	g := qg.NewGrid(cfg.Nx, cfg.Ny, cfg.Lx, cfg.Ly)

@@ -34,7 +34,7 @@ func spongeConfig(dt float64) qg.Config {
 	cfg := qg.DefaultConfig() // 16 000 × 8 000 km
 	cfg.Nx, cfg.Ny = 128, 64
 	cfg.Beta, cfg.U1, cfg.U2, cfg.Drag = 0, 10, 10, 0
-	cfg.Dissipation = qg.Dissipation{Kind: qg.NoDissipation}
+	cfg.ScaleSelective = qg.ScaleSelective{Kind: qg.NoScaleSelective}
 	cfg.Sponge = qg.Sponge{Rate: 1 / 86400.0, Width: 3e6, X: 8e6}
 	cfg.Dt = dt
 	return cfg

@@ -46,7 +46,7 @@ func (m *Model) Step() error {
 		for n := range 2 {
 			copy(m.q[n], m.prev[n])
 		}
-		m.inv.InvertAll(m.psi, m.q)
+		m.inv.Invert(m.psi, m.q)
 		m.nhist = 0
 		m.t = t0
 		m.ledger = led
@@ -197,7 +197,7 @@ func (m *Model) afterStep(src [2][]complex128) error {
 			m.spongeLayer(n)
 		}
 	})
-	m.ledger[TermFilter] += eFilter[0] + eFilter[1]
+	m.ledger[TermScaleSelective] += eFilter[0] + eFilter[1]
 	// the energy of the state, its finiteness and, once the state is
 	// final, its streamfunction
 	final := len(m.sources) == 0
@@ -234,7 +234,7 @@ func (m *Model) afterStep(src [2][]complex128) error {
 		m.eachLayer(settle)
 		// E(q + Δq) − E(q) = −Σ_n W_n⟨(ψ_n + ½Δψ_n) Δq_n⟩: the midpoint
 		// (Stratonovich) evaluation, exact for a quadratic energy.
-		m.ledger[TermSource] += (eAfter[0] + eAfter[1]) - e0
+		m.ledger[TermInjection] += (eAfter[0] + eAfter[1]) - e0
 	}
 	for n := range 2 {
 		if !finite[n] {

@@ -42,7 +42,7 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 		// Each layer inverts its own streamfunction from the PV of both:
 		// the layers' data then stay with the core that works on them.
 		for _, j := range rows {
-			m.inv.InvertLayer(n, psi[n], q, j*nk, j*nk+nc)
+			m.inv.invertLayerRange(n, psi[n], q, j*nk, j*nk+nc)
 		}
 		for j := range lw.rowRates {
 			lw.rowRates[j] = [NumTerms]float64{}
@@ -147,10 +147,9 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 			rr[TermAdvection] = -w * rAdv
 			rr[TermShear] = -w * rShear
 			rr[TermDrag] = -w * rDrag
-			rr[TermHyperviscosity] = -w * rHyp
-			rr[TermRelaxation] = -w * rRel
-			rr[TermBlockForcing] = -w * rG
-			rr[TermForcing] = -w * rF
+			rr[TermScaleSelective] = -w * rHyp
+			rr[TermMaintenance] = -w * (rRel + rG) // one of the two is zero
+			rr[TermInjection] = -w * rF
 		}
 		if first {
 			lw.cfl, lw.cflAt = 0, [3]float64{}

@@ -15,17 +15,18 @@ import (
 //     when Block.Linear);
 //   - TermShear: −U_n ∂x q_n − Q_ny ∂x ψ_n;
 //   - TermDrag: −r_ek ∇²ψ2 on the lower layer;
-//   - TermHyperviscosity: −ν(−∇²)^p q;
-//   - TermFilter: the cutoff filter's equivalent rate, −λ(k) q̂;
+//   - TermScaleSelective: the hyperviscosity −ν(−∇²)^p q, or the cutoff
+//     filter's equivalent rate −λ(k) q̂;
 //   - TermSponge: −s(x)(q − target), the target being q_B in the forced and
 //     relaxed modes and zero otherwise;
-//   - TermRelaxation: −(q − q_B)/τ_r in the relaxed mode;
-//   - TermBlockForcing: the steady forcing G of the forced mode;
-//   - TermForcing: the sum of the deterministic Forcings at time t.
+//   - TermMaintenance: the steady forcing G of the forced mode, or the
+//     relaxation −(q − q_B)/τ_r of the relaxed mode;
+//   - TermInjection: the sum of the deterministic Forcings and GridForcings
+//     at time t (the stochastic Sources have no tendency of their own; their
+//     mean is zero).
 //
-// Terms that are not active in the model's configuration give zero.
-// TermSource is stochastic and has no tendency: it is an error. It uses the
-// model's work buffers, so it must not be called during a step.
+// Terms that are not active in the model's configuration give zero. It
+// uses the model's work buffers, so it must not be called during a step.
 func (m *Model) TermTendency(term Term, dst, q [2][]complex128, t float64) error {
 	g := m.g
 	ns := len(g.k2)
@@ -36,7 +37,7 @@ func (m *Model) TermTendency(term Term, dst, q [2][]complex128, t float64) error
 		clear(dst[n])
 	}
 	psi := m.psiS
-	m.inv.InvertAll(psi, q)
+	m.inv.Invert(psi, q)
 	blk := m.blk
 	switch term {
 	case TermAdvection:
@@ -56,7 +57,7 @@ func (m *Model) TermTendency(term Term, dst, q [2][]complex128, t float64) error
 		for p := range ns {
 			dst[1][p] = scale(m.cfg.Drag*g.k2[p]*g.keep[p], psi[1][p])
 		}
-	case TermHyperviscosity:
+	case TermScaleSelective:
 		if m.hyper != nil {
 			for n := range 2 {
 				for p := range ns {
@@ -64,7 +65,6 @@ func (m *Model) TermTendency(term Term, dst, q [2][]complex128, t float64) error
 				}
 			}
 		}
-	case TermFilter:
 		if m.filter != nil {
 			for n := range 2 {
 				for p := range ns {
@@ -97,7 +97,7 @@ func (m *Model) TermTendency(term Term, dst, q [2][]complex128, t float64) error
 				}
 			}
 		}
-	case TermRelaxation:
+	case TermMaintenance:
 		if blk != nil && blk.mode == Relaxed {
 			for n := range 2 {
 				for p := range ns {
@@ -105,13 +105,12 @@ func (m *Model) TermTendency(term Term, dst, q [2][]complex128, t float64) error
 				}
 			}
 		}
-	case TermBlockForcing:
 		if blk != nil && blk.force[0] != nil {
 			for n := range 2 {
 				copy(dst[n], blk.force[n])
 			}
 		}
-	case TermForcing:
+	case TermInjection:
 		for _, f := range m.forcings {
 			f.AddTendency(dst, t)
 		}
@@ -120,8 +119,6 @@ func (m *Model) TermTendency(term Term, dst, q [2][]complex128, t float64) error
 				dst[n][p] = scale(g.keep[p], dst[n][p])
 			}
 		}
-	case TermSource:
-		return fmt.Errorf("qg: TermTendency: %v is stochastic and has no tendency", term)
 	default:
 		return fmt.Errorf("qg: TermTendency: unknown term %d", int(term))
 	}

@@ -14,8 +14,7 @@
 //	w.Attach(model)                     // as a qg.Source (noise) or a qg.Forcing (wave train)
 //
 // NewNoise and NewTrain return the concrete types. The model books the
-// noise's injection in Ledger[qg.TermSource] and the train's work in
-// Ledger[qg.TermForcing].
+// noise's injection and the train's work in Ledger[qg.TermInjection].
 //
 // # The noise
 //

@@ -30,7 +30,7 @@ func Example() {
 	if err := model.Run(int(days * 86400 / qc.Dt)); err != nil {
 		log.Fatal(err)
 	}
-	rate := model.Ledger()[qg.TermSource] / model.Time()
+	rate := model.Ledger()[qg.TermInjection] / model.Time()
 	// The expected rate is exactly the target; one run scatters about it
 	// (here by a few per cent over 60 days; weakly damped eddies on a small
 	// patch make the scatter larger over shorter runs).

@@ -18,7 +18,7 @@ func testModelConfig(dt, dampDays float64) qg.Config {
 	qc.U1, qc.U2 = 0, 0
 	qc.Drag = 0
 	k := 2 * math.Pi / 2.7e6
-	qc.Dissipation = qg.Dissipation{Kind: qg.Hyperviscosity, Viscosity: 1 / (dampDays * 86400 * k * k), Order: 1}
+	qc.ScaleSelective = qg.ScaleSelective{Kind: qg.Hyperviscosity, Viscosity: 1 / (dampDays * 86400 * k * k), Order: 1}
 	qc.Dt = dt
 	return qc
 }
@@ -61,7 +61,7 @@ func pair(n int) [2][]complex128 {
 // incrementEnergy returns E(Δq) = E(q + Δq) − E(q) at q = 0, computed with
 // the model's inversion and qg.Energy.
 func incrementEnergy(m *qg.Model, dq, psi [2][]complex128) float64 {
-	m.Inverter().InvertAll(psi, dq)
+	m.Inverter().Invert(psi, dq)
 	ke, ape := qg.Energy(m.Grid(), m.Physics(), psi)
 	return ke + ape
 }
@@ -121,3 +121,13 @@ func (c *coMoment) add(x, y float64) {
 }
 
 func (c *coMoment) corr() float64 { return c.cxy / math.Sqrt(c.cxx*c.cyy) }
+
+// toGrid returns the gridded field of spectral coefficients s.
+func toGrid(tb testing.TB, m *qg.Model, s []complex128) []float64 {
+	tb.Helper()
+	f := make([]float64, m.Grid().Points())
+	if err := m.ToGrid(f, s); err != nil {
+		tb.Fatal(err)
+	}
+	return f
+}

@@ -104,7 +104,7 @@ func TestWhiteNormalisation(t *testing.T) {
 
 // runInjection runs the model with the noise attached for the given number
 // of days after a spin-up of 5 days and returns the measured injection rate
-// Ledger[TermSource]/elapsed time with its standard error from 20 batch
+// Ledger[TermInjection]/elapsed time with its standard error from 20 batch
 // means.
 func runInjection(t *testing.T, qc qg.Config, wc Config, days float64) (rate, se float64) {
 	t.Helper()
@@ -122,7 +122,7 @@ func runInjection(t *testing.T, qc qg.Config, wc Config, days float64) (rate, se
 		if err := m.Run(per); err != nil {
 			t.Fatal(err)
 		}
-		rates[b] = m.Ledger()[qg.TermSource] / (float64(per) * qc.Dt)
+		rates[b] = m.Ledger()[qg.TermInjection] / (float64(per) * qc.Dt)
 	}
 	return meanSE(rates, nb)
 }
@@ -376,7 +376,7 @@ func TestRedInjectionLinearResponse(t *testing.T) {
 	s := newNoise(t, wc, m)
 	g := m.Grid()
 	a := energyKernel(m.Inverter(), m.Physics(), g.Len(), s.vec)
-	nu := qc.Dissipation.Viscosity
+	nu := qc.ScaleSelective.Viscosity
 	h := dt / tau
 	aa := math.Exp(-h)
 	var disc, cont, den float64
@@ -416,9 +416,10 @@ func TestIncrementIsRealBandLimited(t *testing.T) {
 	dq := pair(g.Len())
 	s.Increment(dq, 0, 3600)
 	back := make([]complex128, g.Len())
-	plan := m.Plan()
-	grid := m.ToGrid(dq[0])
-	plan.Forward(back, grid)
+	grid := toGrid(t, m, dq[0])
+	if err := m.ToSpectral(back, grid); err != nil {
+		t.Fatal(err)
+	}
 	var scale float64
 	for _, z := range dq[0] {
 		scale = math.Max(scale, cmplx.Abs(z))

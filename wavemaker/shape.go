@@ -102,7 +102,7 @@ func energyKernel(inv *qg.Inverter, ph qg.Physics, ns int, vec [2]float64) []flo
 			q[n][p] = complex(vec[n], 0)
 		}
 	}
-	inv.InvertAll(psi, q)
+	inv.Invert(psi, q)
 	a := make([]float64, ns)
 	for p := range ns {
 		a[p] = -(ph.W1*real(psi[0][p])*vec[0] + ph.W2*real(psi[1][p])*vec[1])

@@ -63,8 +63,8 @@ func TestTrainPattern(t *testing.T) {
 	delta := m.Config().Delta
 	for _, tt := range []float64{0, 0.37 * 86400, 2 * 86400} {
 		dq := tendencyAt(tr, ns, tt)
-		w1 := m.ToGrid(dq[0])
-		w2 := m.ToGrid(dq[1])
+		w1 := toGrid(t, m, dq[0])
+		w2 := toGrid(t, m, dq[1])
 		var maxErr float64
 		for y := range g.Ny {
 			for x := range g.Nx {

@@ -144,8 +144,8 @@ func TestSweep(t *testing.T) {
 	b1, _ := os.ReadFile(filepath.Join(dir, "member-001", "summary.json"))
 	json.Unmarshal(b0, &s0)
 	json.Unmarshal(b1, &s1)
-	e0 := s0["energy"].(map[string]any)["rates"].(map[string]any)["source"].(float64)
-	e1 := s1["energy"].(map[string]any)["rates"].(map[string]any)["source"].(float64)
+	e0 := s0["energy"].(map[string]any)["rates"].(map[string]any)["injection"].(float64)
+	e1 := s1["energy"].(map[string]any)["rates"].(map[string]any)["injection"].(float64)
 	if !(e1 > 2*e0) {
 		t.Errorf("injection rates %g and %g do not follow the swept values 1e-6 and 4e-6", e0, e1)
 	}

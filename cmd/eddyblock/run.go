@@ -141,6 +141,9 @@ func cmdRun(args []string, stdout, stderr io.Writer) error {
 		}
 		return err
 	}
+	if !f.quiet {
+		fmt.Fprintln(stdout, experiment.ProgressUnits)
+	}
 	steps0, t0 := e.Model.Steps(), time.Now()
 	var saveErr error
 	err = e.Run(ctx, func(p experiment.Progress) {

@@ -46,7 +46,7 @@ func main() {
 		}
 		ke, ape := m.Energy()
 		l := m.Ledger()
-		fmt.Printf("day %3d  KE %8.3g  APE %8.3g m²/s²  CFL %.2f  conversion %9.3g  drag %9.3g  filter %9.3g m²/s²\n",
-			day, ke, ape, m.CFL(), l[qg.TermShear], l[qg.TermDrag], l[qg.TermFilter])
+		fmt.Printf("day %3d  KE %8.3g  APE %8.3g m²/s²  CFL %.2f  shear %9.3g  drag %9.3g  scale_selective %9.3g m²/s²\n",
+			day, ke, ape, m.CFL(), l[qg.TermShear], l[qg.TermDrag], l[qg.TermScaleSelective])
 	}
 }

@@ -128,8 +128,8 @@ func runModon(t *testing.T, mo block.Modon) (*qg.Model, []complex128) {
 	cfg := qg.Config{
 		Nx: 128, Ny: 64, Lx: 12.8e6, Ly: 6.4e6,
 		F0: 1e-4, Beta: 1.6e-11, Ld: 7e5, Delta: 1,
-		Dissipation: qg.Dissipation{Kind: qg.NoDissipation},
-		Dt:          3600, Scheme: qg.RK4, MaxCFL: 1, Workers: 1,
+		ScaleSelective: qg.ScaleSelective{Kind: qg.NoScaleSelective},
+		Dt:             3600, Scheme: qg.RK4, MaxCFL: 1, Workers: 1,
 	}
 	bc := block.Config{Shape: block.ModonShape, Mode: qg.Free, Modon: mo}
 	b, err := bc.Block(cfg)

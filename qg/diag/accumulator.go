@@ -24,7 +24,7 @@ const (
 type Options struct {
 	// Spinup is the model time (s) before which samples enter only the
 	// time series, not the time means and statistics.
-	Spinup float64 `json:"spinup"`
+	Spinup float64 `json:"spinup_s"`
 	// Norm is the inner product of the projections (default EnergyNorm).
 	Norm Norm `json:"norm"`
 	// Pattern is the pattern (m² s⁻¹, both layers, Ny rows of Nx points)
@@ -209,7 +209,7 @@ func (a *Accumulator) Sample() error {
 	a.gridFields(psiS, qS)
 	a.welford()
 	a.spectral(psiS)
-	if err := m.TermTendency(qg.TermForcing, a.fBuf, qS, t); err != nil {
+	if err := m.TermTendency(qg.TermInjection, a.fBuf, qS, t); err != nil {
 		return fmt.Errorf("diag: Sample: %w", err)
 	}
 	inv := complex(1/float64(a.n), 0)

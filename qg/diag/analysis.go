@@ -85,9 +85,9 @@ func (a *Accumulator) analyse() *analysis {
 		}
 	}
 	inv := a.m.Inverter()
-	inv.InvertAll(an.psit, an.conv)
-	inv.InvertAll(an.psitZ, an.convZ)
-	inv.InvertAll(an.psit2, an.conv2)
+	inv.Invert(an.psit, an.conv)
+	inv.Invert(an.psitZ, an.convZ)
+	inv.Invert(an.psit2, an.conv2)
 
 	an.refPsi, an.refQ = pair(), pair()
 	switch {
@@ -137,7 +137,7 @@ func (a *Accumulator) termTendency(term qg.Term, refQ [2][]complex128) [2][]comp
 	ns := a.g.Len()
 	dq := [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
 	if err := a.m.TermTendency(term, dq, refQ, a.tLast); err != nil {
-		panic("diag: " + err.Error()) // only TermSource or a size mismatch, neither possible here
+		panic("diag: " + err.Error()) // only a size mismatch, not possible here
 	}
 	return dq
 }
@@ -146,7 +146,7 @@ func (a *Accumulator) termTendency(term qg.Term, refQ [2][]complex128) [2][]comp
 func (a *Accumulator) streamTendency(dq [2][]complex128) [2][]complex128 {
 	ns := a.g.Len()
 	ps := [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
-	a.m.Inverter().InvertAll(ps, dq)
+	a.m.Inverter().Invert(ps, dq)
 	return ps
 }
 

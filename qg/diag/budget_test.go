@@ -31,7 +31,7 @@ func tstForcedRun(t testing.TB, nx, ny int) (*qg.Model, qg.Config) {
 	cfg := tstConfig(nx, ny)
 	cfg.U1, cfg.U2 = 12, 2
 	cfg.Drag = 1 / (4 * day)
-	cfg.Dissipation = qg.Dissipation{Kind: qg.Hyperviscosity, Viscosity: 5e14, Order: 2}
+	cfg.ScaleSelective = qg.ScaleSelective{Kind: qg.Hyperviscosity, Viscosity: 5e14, Order: 2}
 	cfg.Sponge = qg.Sponge{Rate: 1 / (2 * day), Width: 2e6, X: 7e6}
 	m := tstModel(t, cfg)
 	plan, err := fft.NewPlan2D(cfg.Nx, cfg.Ny, 1)
@@ -89,7 +89,7 @@ func TestEnergyBudgetCloses(t *testing.T) {
 		for _, r := range s.Rates {
 			budget += r[i] * h
 		}
-		forcing += s.Rates["forcing"][i] * h
+		forcing += s.Rates["injection"][i] * h
 		drag += s.Rates["drag"][i] * h
 		dragRef += 0.5 * (dragNow[i] + dragNow[i-1]) * h
 	}

@@ -21,7 +21,7 @@ func sampleWave(t *testing.T, m *qg.Model, a *Accumulator, cfg qg.Config, k, l, 
 		if err := m.SetStreamfunction(psi); err != nil {
 			t.Fatal(err)
 		}
-		m.SetTime(ts)
+		setClock(t, m, ts)
 		if err := a.Sample(); err != nil {
 			t.Fatal(err)
 		}

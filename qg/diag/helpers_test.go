@@ -17,8 +17,8 @@ func tstConfig(nx, ny int) qg.Config {
 	return qg.Config{
 		Nx: nx, Ny: ny, Lx: 8e6, Ly: 8e6,
 		F0: 1e-4, Beta: 1.6e-11, Ld: 7e5, Delta: 1,
-		Dissipation: qg.Dissipation{Kind: qg.NoDissipation},
-		Dt:          1800, Scheme: qg.RK4, MaxCFL: 1.5, Workers: 1,
+		ScaleSelective: qg.ScaleSelective{Kind: qg.NoScaleSelective},
+		Dt:             1800, Scheme: qg.RK4, MaxCFL: 1.5, Workers: 1,
 	}
 }
 
@@ -114,4 +114,15 @@ func tstGet(t testing.TB, f Fields, name string) []float64 {
 		t.Fatalf("field %q missing; have %v", name, f.Names())
 	}
 	return x.Data
+}
+
+// setClock sets the model's time, as a restart from a checkpoint would, so
+// that a test can sample prescribed states at chosen times.
+func setClock(tb testing.TB, m *qg.Model, t float64) {
+	tb.Helper()
+	c := m.Checkpoint()
+	c.Time = t
+	if err := m.Restore(c); err != nil {
+		tb.Fatal(err)
+	}
 }

@@ -49,7 +49,7 @@ func (a *Accumulator) EddyField(name string, dst []float64) error {
 		a.plan.Inverse(dst, b.c[layer])
 		return nil
 	}
-	a.m.Inverter().InvertLayer(layer, b.ps[layer], b.c, 0, a.g.Len())
+	a.m.Inverter().InvertLayer(layer, b.ps[layer], b.c)
 	a.plan.Inverse(dst, b.ps[layer])
 	zc := a.cfg.F0 / qg.Gravity * day
 	for i := range dst {

@@ -47,7 +47,7 @@ func TestEddyField(t *testing.T) {
 					}
 				}
 				tstSetPsi(t, m, plan, psi)
-				m.SetTime(float64(s+1) * 3600)
+				setClock(t, m, float64(s+1)*3600)
 				if err := a.Sample(); err != nil {
 					t.Fatal(err)
 				}

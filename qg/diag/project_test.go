@@ -104,7 +104,7 @@ func TestForcedBlockWithoutEddies(t *testing.T) {
 	cfg := tstConfig(32, 32)
 	cfg.U1, cfg.U2 = 10, 4
 	cfg.Drag = 1 / (5 * day)
-	cfg.Dissipation = qg.Dissipation{Kind: qg.Hyperviscosity, Viscosity: 1e14, Order: 2}
+	cfg.ScaleSelective = qg.ScaleSelective{Kind: qg.Hyperviscosity, Viscosity: 1e14, Order: 2}
 	cfg.Sponge = qg.Sponge{Rate: 1 / day, Width: 1.5e6, X: 1e6}
 	const amp, R, d = 3e7, 8e5, 1.2e6
 	k, l := 2*math.Pi*2/cfg.Lx, 2*math.Pi*1/cfg.Ly

@@ -3,7 +3,8 @@ package diag
 // Series holds one entry per Sample call, spin-up included. Samples from
 // WindowStart on form the averaging window.
 type Series struct {
-	Time       []float64 `json:"time"`       // model time, s
+	Time       []float64 `json:"-"`          // model time, s
+	Day        []float64 `json:"day"`        // model time, days (filled by Accumulator.Series)
 	KE         []float64 `json:"ke"`         // kinetic energy, m² s⁻²
 	APE        []float64 `json:"ape"`        // available potential energy, m² s⁻²
 	Enstrophy1 []float64 `json:"enstrophy1"` // ½⟨q1²⟩, s⁻²
@@ -23,6 +24,10 @@ func (a *Accumulator) Series() Series {
 	s := a.series
 	cp := func(x []float64) []float64 { return append([]float64(nil), x...) }
 	s.Time, s.KE, s.APE = cp(s.Time), cp(s.KE), cp(s.APE)
+	s.Day = make([]float64, len(s.Time))
+	for i, t := range s.Time {
+		s.Day[i] = t / day
+	}
 	s.Enstrophy1, s.Enstrophy2, s.CFL = cp(s.Enstrophy1), cp(s.Enstrophy2), cp(s.CFL)
 	if s.Index != nil {
 		s.Index = cp(s.Index)

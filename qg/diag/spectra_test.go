@@ -41,7 +41,7 @@ func TestSpectraParseval(t *testing.T) {
 	for s := range ns {
 		psi := tstRandomPsi(g, rng, 1e6, 10)
 		tstSetPsi(t, m, plan, psi)
-		m.SetTime(float64(s))
+		setClock(t, m, float64(s))
 		if err := a.Sample(); err != nil {
 			t.Fatal(err)
 		}

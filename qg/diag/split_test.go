@@ -77,7 +77,7 @@ func TestSplitAndTwoPassOnRandomFields(t *testing.T) {
 			}
 		}
 		tstSetPsi(t, m, plan, psi)
-		m.SetTime(float64(s) * 3600)
+		setClock(t, m, float64(s)*3600)
 		if err := a.Sample(); err != nil {
 			t.Fatal(err)
 		}
@@ -167,7 +167,7 @@ func TestWelfordAgainstTwoPass(t *testing.T) {
 			}
 		}
 		tstSetPsi(t, m, plan, psi)
-		m.SetTime(float64(s))
+		setClock(t, m, float64(s))
 		if err := a.Sample(); err != nil {
 			t.Fatal(err)
 		}

@@ -119,8 +119,7 @@ func (a *Accumulator) Summary() Summary {
 		s.MeanFlow = fit(a.streamTendency(mf))
 
 		drag := a.termTendency(qg.TermDrag, an.refQ)
-		sel := a.termTendency(qg.TermFilter, an.refQ)
-		addTo(sel, a.termTendency(qg.TermHyperviscosity, an.refQ))
+		sel := a.termTendency(qg.TermScaleSelective, an.refQ)
 		sp := a.termTendency(qg.TermSponge, an.refQ)
 		s.Drag = rate(a.streamTendency(drag))
 		s.ScaleSelective = rate(a.streamTendency(sel))
@@ -129,8 +128,7 @@ func (a *Accumulator) Summary() Summary {
 		addTo(drag, sp)
 		s.Dissipation = fit(a.streamTendency(drag))
 
-		mt := a.termTendency(qg.TermBlockForcing, an.refQ)
-		addTo(mt, a.termTendency(qg.TermRelaxation, an.refQ))
+		mt := a.termTendency(qg.TermMaintenance, an.refQ)
 		s.Maintenance = rate(a.streamTendency(mt))
 		s.Forcing = rate(a.streamTendency(a.fMean))
 
@@ -258,7 +256,7 @@ func (s Summary) String() string {
 		row("mean flow", s.MeanFlow)
 		row("dissipation", s.Dissipation)
 		fmt.Fprintf(&b, "  (drift columns in km day⁻¹)\n")
-		fmt.Fprintf(&b, "  dissipation parts: drag %+.4f, scale-selective %+.4f, sponge %+.4f\n", s.Drag, s.ScaleSelective, s.Sponge)
+		fmt.Fprintf(&b, "  dissipation parts: drag %+.4f, scale_selective %+.4f, sponge %+.4f\n", s.Drag, s.ScaleSelective, s.Sponge)
 		fmt.Fprintf(&b, "  maintenance %+.4f, forcing %+.4f, trend %+.4f, residual %+.4f\n", s.Maintenance, s.Forcing, s.Trend, s.Residual)
 		fmt.Fprintf(&b, "  eddy/|dissipation| = %.3f; eddy height tendency %+.1f m day⁻¹ at the block's peak\n", s.EddyToDissipation, s.Eddy.Rate*s.BlockHeight)
 		ix := s.Index
