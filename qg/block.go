@@ -154,17 +154,7 @@ func (m *Model) BlockMode() BlockMode {
 // of the velocity spectra are written (the others stay zero) and the plan
 // reads only the retained columns.
 func (m *Model) velocity(lw *layerWork, u, v []float64, psi []complex128) {
-	g := m.g
-	nk, nc := g.Nkx, g.keptCols
-	a, b := lw.du, lw.dv
-	for _, j := range g.keptRows {
-		aj, bj, pj := a[j*nk:j*nk+nc], b[j*nk:j*nk+nc], psi[j*nk:j*nk+nc]
-		l := g.l[j]
-		for i, z := range pj {
-			aj[i] = mulI(-l, z)
-			bj[i] = mulI(g.k[i], z)
-		}
-	}
-	lw.plan.Inverse(u, a)
-	lw.plan.Inverse(v, b)
+	m.g.velocityKept(lw.du, lw.dv, psi)
+	lw.plan.Inverse(u, lw.du)
+	lw.plan.Inverse(v, lw.dv)
 }

@@ -118,26 +118,12 @@ func (l *Ledger) Sum() float64 {
 	return s
 }
 
-// Energy returns the kinetic and available potential energy per unit mass,
+// energy returns the kinetic and available potential energy per unit mass,
 // domain mean, of spectral streamfunctions psi (m² s⁻²):
 // KE = ½ Σ_n (H_n/H)⟨|∇ψ_n|²⟩, APE = ½ (H1/H) F1 ⟨(ψ1 − ψ2)²⟩.
-func Energy(g *Grid, ph Physics, psi [2][]complex128) (ke, ape float64) {
-	for p, k2 := range g.k2 {
-		w := g.weight[p]
-		if w == 0 {
-			continue
-		}
-		a, b := psi[0][p], psi[1][p]
-		ke += w * k2 * (ph.W1*dot(a, a) + ph.W2*dot(b, b))
-		d := a - b
-		ape += w * dot(d, d)
-	}
-	return ke / 2, ape * ph.W1 * ph.F1 / 2
-}
-
-// Enstrophy returns each layer's enstrophy ½⟨q_n²⟩ of spectral PV q, s⁻².
-func Enstrophy(g *Grid, q [2][]complex128) (z1, z2 float64) {
-	return g.Inner(q[0], q[0]) / 2, g.Inner(q[1], q[1]) / 2
+func energy(g *Grid, ph Physics, psi [2][]complex128) (ke, ape float64) {
+	k, p := g.EnergyProduct(ph, psi, psi)
+	return k / 2, p / 2
 }
 
 // layerInversion returns the coefficients of layer n's inversion,

@@ -144,10 +144,12 @@ func (m *Model) SpectralStreamfunction() [2][]complex128 { return m.psi }
 
 // Energy returns the kinetic and available potential energy of the state
 // (of the eddies in the fixed-block mode), m² s⁻².
-func (m *Model) Energy() (ke, ape float64) { return Energy(m.g, m.ph, m.psi) }
+func (m *Model) Energy() (ke, ape float64) { return energy(m.g, m.ph, m.psi) }
 
 // Enstrophy returns each layer's enstrophy ½⟨q_n²⟩ of the state, s⁻².
-func (m *Model) Enstrophy() (z1, z2 float64) { return Enstrophy(m.g, m.q) }
+func (m *Model) Enstrophy() (z1, z2 float64) {
+	return m.g.Inner(m.q[0], m.q[0]) / 2, m.g.Inner(m.q[1], m.q[1]) / 2
+}
 
 // AddForcing adds a deterministic PV forcing.
 func (m *Model) AddForcing(f Forcing) { m.forcings = append(m.forcings, f) }

@@ -112,7 +112,7 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 				}
 				k := g.k[i]
 				ps, qq := pn[p], qn[p]
-				adv := -(mulI(k, fuh[p]) + mulI(l, fvh[p]))
+				adv := divergence(k, l, fuh[p], fvh[p])
 				shear := -(mulI(k*U, qq) + mulI(k*qy, ps))
 				tot := adv + shear
 				wp := g.weight[p]

@@ -42,7 +42,7 @@ func (m *Model) TermTendency(term Term, dst, q [2][]complex128, t float64) error
 	switch term {
 	case TermAdvection:
 		for n := range 2 {
-			m.advection(dst[n], n, psi[n], q[n])
+			m.advection(dst[n], n, psi[n], q[n], true)
 		}
 	case TermShear:
 		qy := [2]float64{m.ph.Q1y, m.ph.Q2y}
@@ -128,9 +128,28 @@ func (m *Model) TermTendency(term Term, dst, q [2][]complex128, t float64) error
 // lnRate returns the rate −ln(f)/dt as a negative tendency coefficient.
 func lnRate(f, dt float64) float64 { return math.Log(f) / dt }
 
+// Advection sets dst to the advective PV tendency −J(ψ, q) = −∇·(u q) of
+// spectral ψ and q of layer n (0 upper, 1 lower), computed as the model's
+// stepper computes it: the velocity and q on the grid, their products, and
+// the convergence of the product, truncated to the retained modes. The
+// fixed mode's block is not added (ψ and q are taken as the whole flow). It
+// uses the model's work buffers, so it must not be called during a step.
+func (m *Model) Advection(dst, psi, q []complex128, n int) error {
+	ns := m.g.Len()
+	if len(dst) != ns || len(psi) != ns || len(q) != ns {
+		return fmt.Errorf("qg: Advection: %d, %d and %d coefficients, the grid needs %d", len(dst), len(psi), len(q), ns)
+	}
+	if n != 0 && n != 1 {
+		return fmt.Errorf("qg: Advection: layer %d, want 0 (upper) or 1 (lower)", n)
+	}
+	m.advection(dst, n, psi, q, false)
+	return nil
+}
+
 // advection sets dst to the advective PV tendency of layer n, in flux form
-// and truncated, including the fixed block's background when there is one.
-func (m *Model) advection(dst []complex128, n int, psi, q []complex128) {
+// and truncated, including the fixed block's background when withBlock is
+// set and the block is fixed.
+func (m *Model) advection(dst []complex128, n int, psi, q []complex128, withBlock bool) {
 	g := m.g
 	lw := &m.lw[0]
 	u, v, qg, fu, fv := m.u[n], m.v[n], m.qp[n], lw.fu, lw.fv
@@ -140,15 +159,12 @@ func (m *Model) advection(dst []complex128, n int, psi, q []complex128) {
 	nx := g.Nx
 	for r := 0; r < len(u); r += nx {
 		var ub, vb, qb []float64
-		if b != nil && b.mode == Fixed {
+		if withBlock && b != nil && b.mode == Fixed {
 			ub, vb, qb = b.u[n][r:r+nx], b.v[n][r:r+nx], b.qp[n][r:r+nx]
 		}
 		m.fluxRow(fu[r:r+nx], fv[r:r+nx], u[r:r+nx], v[r:r+nx], qg[r:r+nx], ub, vb, qb)
 	}
 	m.plan.Forward(lw.a, fu)
 	m.plan.Forward(lw.b, fv)
-	for p := range dst {
-		i, j := p%g.Nkx, p/g.Nkx
-		dst[p] = scale(-g.keep[p], mulI(g.k[i], lw.a[p])+mulI(g.l[j], lw.b[p]))
-	}
+	g.Convergence(dst, lw.a, lw.b)
 }

@@ -59,7 +59,7 @@ type Accumulator struct {
 	blkProj float64 // ⟨ψ_B, P⟩/⟨P, P⟩, added to the index in the fixed mode
 
 	// work
-	spec            []complex128
+	spec, spec2     []complex128
 	psi, u, v, z, q [2][]float64
 	tau             []float64
 
@@ -116,7 +116,7 @@ func New(m *qg.Model, opt Options) (*Accumulator, error) {
 	a := &Accumulator{m: m, g: g, ph: m.Physics(), cfg: cfg, opt: opt, plan: plan, mode: m.BlockMode()}
 	a.raw = a.mode == qg.Fixed && !opt.Transient
 	ns, np := g.Len(), g.Nx*g.Ny
-	a.spec = make([]complex128, ns)
+	a.spec, a.spec2 = make([]complex128, ns), make([]complex128, ns)
 	if b, ok := m.BlockStreamfunction(); ok {
 		a.blkPsi = clonePair(b)
 		bq, _ := m.BlockPV()
@@ -255,7 +255,6 @@ func (a *Accumulator) record(t float64, psi [2][]complex128) {
 // gridFields sets the gridded ψ, u, v, ζ, q of both layers and ψ1 − ψ2.
 func (a *Accumulator) gridFields(psi, q [2][]complex128) {
 	g := a.g
-	nk := g.Nkx
 	for n := range 2 {
 		a.plan.Inverse(a.psi[n], psi[n])
 		// the domain mean of q (which a forcing may carry) is dynamically
@@ -263,14 +262,9 @@ func (a *Accumulator) gridFields(psi, q [2][]complex128) {
 		copy(a.spec, q[n])
 		a.spec[0] = 0
 		a.plan.Inverse(a.q[n], a.spec)
-		for p, s := range psi[n] {
-			a.spec[p] = mulI(-g.L(p/nk), s)
-		}
+		g.Velocity(a.spec, a.spec2, psi[n])
 		a.plan.Inverse(a.u[n], a.spec)
-		for p, s := range psi[n] {
-			a.spec[p] = mulI(g.K(p%nk), s)
-		}
-		a.plan.Inverse(a.v[n], a.spec)
+		a.plan.Inverse(a.v[n], a.spec2)
 		for p, s := range psi[n] {
 			a.spec[p] = complex(-g.K2(p), 0) * s
 		}
@@ -364,24 +358,13 @@ func (a *Accumulator) inner(x, y [2][]complex128) float64 {
 }
 
 func innerProduct(g *qg.Grid, ph qg.Physics, norm Norm, x, y [2][]complex128) float64 {
-	var s float64
-	for p := range g.Len() {
-		w := g.Weight(p)
-		if w == 0 {
-			continue
-		}
-		a1, a2, b1, b2 := x[0][p], x[1][p], y[0][p], y[1][p]
-		if norm == LayerNorm {
-			s += w * (ph.W1*dotc(a1, b1) + ph.W2*dotc(a2, b2))
-			continue
-		}
-		s += w * (g.K2(p)*(ph.W1*dotc(a1, b1)+ph.W2*dotc(a2, b2)) + ph.W1*ph.F1*dotc(a1-a2, b1-b2))
+	if norm == LayerNorm {
+		return g.LayerProduct(ph, x, y)
 	}
-	return s
+	k, p := g.EnergyProduct(ph, x, y)
+	return k + p
 }
 
 // dotc returns Re(a·conj(b)).
 func dotc(a, b complex128) float64 { return real(a)*real(b) + imag(a)*imag(b) }
 
-// mulI returns i·k·z.
-func mulI(k float64, z complex128) complex128 { return complex(-k*imag(z), k*real(z)) }

@@ -55,14 +55,10 @@ func (a *Accumulator) moments(n int) eddyMoments {
 // convergence sets dst to −∇·(fx, fy), spectral, truncated to the retained
 // modes.
 func (a *Accumulator) convergence(dst []complex128, fx, fy []float64) {
-	g := a.g
-	nk := g.Nkx
 	fxh := make([]complex128, len(dst))
 	a.plan.Forward(fxh, fx)
 	a.plan.Forward(dst, fy)
-	for p := range dst {
-		dst[p] = complex(-g.Keep(p), 0) * (mulI(g.K(p%nk), fxh[p]) + mulI(g.L(p/nk), dst[p]))
-	}
+	a.g.Convergence(dst, fxh, dst)
 }
 
 // analyse derives the eddy fluxes, their convergences and the tendencies
@@ -106,29 +102,6 @@ func (a *Accumulator) analyse() *analysis {
 	}
 	inv.PV(an.refQ, an.refPsi)
 	return an
-}
-
-// jacobian sets dst to −J(ψ, q) = −∇·(u q), spectral and truncated, for
-// spectral ψ and q of one layer.
-func (a *Accumulator) jacobian(dst, psi, q []complex128) {
-	g := a.g
-	nk := g.Nkx
-	np := len(a.tau)
-	u, v, qq := make([]float64, np), make([]float64, np), make([]float64, np)
-	for p, s := range psi {
-		a.spec[p] = mulI(-g.L(p/nk), s)
-	}
-	a.plan.Inverse(u, a.spec)
-	for p, s := range psi {
-		a.spec[p] = mulI(g.K(p%nk), s)
-	}
-	a.plan.Inverse(v, a.spec)
-	a.plan.Inverse(qq, q)
-	for i := range u {
-		u[i] *= qq[i]
-		v[i] *= qq[i]
-	}
-	a.convergence(dst, u, v)
 }
 
 // termTendency returns the streamfunction tendency of one model term on the

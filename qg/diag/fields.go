@@ -94,15 +94,9 @@ func (a *Accumulator) Fields() Fields {
 		v := a.field(n, func(c *cell) float64 { return c.mv })
 		if a.mode == qg.Fixed {
 			bp, bq := grid(a.blkPsi[n]), grid(a.blkQ[n])
-			bs := make([]complex128, g.Len())
-			for p, s := range a.blkPsi[n] {
-				bs[p] = mulI(-g.L(p/g.Nkx), s)
-			}
-			bu := grid(bs)
-			for p, s := range a.blkPsi[n] {
-				bs[p] = mulI(g.K(p%g.Nkx), s)
-			}
-			bv := grid(bs)
+			su, sv := make([]complex128, g.Len()), make([]complex128, g.Len())
+			g.Velocity(su, sv, a.blkPsi[n])
+			bu, bv := grid(su), grid(sv)
 			for i := range psi {
 				psi[i] += bp[i]
 				q[i] += bq[i]

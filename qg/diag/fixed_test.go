@@ -110,7 +110,9 @@ func TestJacobianAgainstModel(t *testing.T) {
 	want := a.termTendency(qg.TermAdvection, q)
 	for n := range 2 {
 		got := make([]complex128, len(q[n]))
-		a.jacobian(got, psi[n], q[n])
+		if err := m.Advection(got, psi[n], q[n], n); err != nil {
+			t.Fatal(err)
+		}
 		var sc, e float64
 		for p := range got {
 			sc = math.Max(sc, math.Hypot(real(want[n][p]), imag(want[n][p])))

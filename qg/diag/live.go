@@ -133,16 +133,14 @@ func (a *Accumulator) liveConvergence(b *liveBuf, part, n int) {
 		}
 		b.fx[i], b.fy[i] = x, y
 	}
-	g := a.g
-	nk := g.Nkx
 	dst := b.c[n]
 	a.plan.Forward(b.fxh, b.fx)
 	a.plan.Forward(dst, b.fy)
-	f := 1.0
+	a.g.Convergence(dst, b.fxh, dst)
 	if part == 2 {
-		f = [2]float64{-a.ph.F1, a.ph.F2}[n] // F_n (ψ_m − ψ_n) = ∓F_n (ψ1 − ψ2)
-	}
-	for p := range dst {
-		dst[p] = complex(-f*g.Keep(p), 0) * (mulI(g.K(p%nk), b.fxh[p]) + mulI(g.L(p/nk), dst[p]))
+		f := complex([2]float64{-a.ph.F1, a.ph.F2}[n], 0) // F_n (ψ_m − ψ_n) = ∓F_n (ψ1 − ψ2)
+		for p := range dst {
+			dst[p] *= f
+		}
 	}
 }

@@ -153,3 +153,6 @@ func scale2(i int, gm [3][3]float64) float64 {
 	}
 	return math.Max(gm[1][1], gm[2][2]) / gm[0][0]
 }
+
+// mulI returns i·k·z.
+func mulI(k float64, z complex128) complex128 { return complex(-k*imag(z), k*real(z)) }

@@ -5,7 +5,6 @@ import (
 	"math/rand/v2"
 	"testing"
 
-	"github.com/eddyblock/eddyblock/qg"
 	"github.com/eddyblock/eddyblock/qg/fft"
 )
 
@@ -71,9 +70,9 @@ func TestSpectraParseval(t *testing.T) {
 				d[n][p] -= mean[n][p] / ns
 			}
 		}
-		k, p := qg.Energy(g, ph, d)
-		mke += k / ns
-		mape += p / ns
+		k, p := g.EnergyProduct(ph, d, d)
+		mke += k / 2 / ns
+		mape += p / 2 / ns
 	}
 	check("time-mean eddies", a.Spectra(), mke, mape)
 

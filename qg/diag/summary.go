@@ -113,7 +113,9 @@ func (a *Accumulator) Summary() Summary {
 		mf := a.termTendency(qg.TermShear, an.refQ)
 		adv := [2][]complex128{make([]complex128, a.g.Len()), make([]complex128, a.g.Len())}
 		for n := range 2 {
-			a.jacobian(adv[n], an.refPsi[n], an.refQ[n])
+			if err := a.m.Advection(adv[n], an.refPsi[n], an.refQ[n], n); err != nil {
+				panic("diag: " + err.Error()) // sizes are the grid's
+			}
 		}
 		addTo(mf, adv)
 		s.MeanFlow = fit(a.streamTendency(mf))
