@@ -108,12 +108,8 @@ func (m *Model) SetBlock(b Block) error {
 		// The forcing is the negative of the model's own tendency at q_B.
 		// The user's Forcings (a wave source) are left out: G balances only
 		// the block's own advection, the background terms and dissipation.
-		m.blk.force = [2][]complex128{}
-		saved := m.forcings
-		m.forcings = nil
 		var rates [NumTerms]float64
-		m.tendency(m.dq, m.q, m.psiS, m.t, &rates, nil)
-		m.forcings = saved
+		m.tendency(m.dq, m.q, m.psiS, m.t, false, false, &rates, nil) // bs.force is still nil
 		bs.force = [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
 		for n := range 2 {
 			for p := range ns {

@@ -62,7 +62,6 @@ type Model struct {
 	lw    [2]layerWork
 	u, v  [2][]float64
 	qp    [2][]float64
-	stage bool // true while evaluating the first stage of a step
 	cfl   float64
 	cflAt [3]float64 // layer, u, v at the CFL maximum
 	fbuf  [2][]complex128

@@ -125,9 +125,7 @@ func (m *Model) stepRK4() error {
 				}
 			}
 		}
-		m.stage = s == 0
-		m.tendency(k, in, m.psiS, m.t+st.c*dt, &rates, update)
-		m.stage = false
+		m.tendency(k, in, m.psiS, m.t+st.c*dt, s == 0, true, &rates, update)
 		if s == 0 {
 			m.histRates[0] = rates
 			if err := m.checkCFL(); err != nil {
@@ -168,9 +166,7 @@ func (m *Model) stepAB3() error {
 		}
 	}
 	var rates [NumTerms]float64
-	m.stage = true
-	m.tendency(k, m.q, m.psiS, m.t, &rates, update)
-	m.stage = false
+	m.tendency(k, m.q, m.psiS, m.t, true, true, &rates, update)
 	m.histRates[0] = rates
 	if err := m.checkCFL(); err != nil {
 		return err

@@ -4,7 +4,9 @@ import "math"
 
 // tendency sets dq to the PV tendency of the state q at time t and psi to
 // its streamfunction, and stores in rates the energy rate (m² s⁻³) of each
-// term of the tendency. The nonlinear term is computed in flux form,
+// term of the tendency. On the first stage of a step (first) it also finds
+// the CFL number of q; external includes the external forcings (the
+// Forcings and GridForcings added to the model). The nonlinear term is computed in flux form,
 // J(ψ, q) = ∂x(uq) + ∂y(vq), from gridded u, v, q and truncated by the 2/3
 // rule; every other term is exact in spectral space.
 //
@@ -13,7 +15,7 @@ import "math"
 // run concurrently), so that a time stepper's update of a layer is done
 // where its tendency is still in cache. update(n) may touch only layer n's
 // data and must not write q.
-func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms]float64, update func(n int)) {
+func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, first, external bool, rates *[NumTerms]float64, update func(n int)) {
 	g := m.g
 	nk, nx := g.Nkx, g.Nx
 	rows, nc := g.keptRows, g.keptCols
@@ -23,12 +25,11 @@ func (m *Model) tendency(dq, q, psi [2][]complex128, t float64, rates *[NumTerms
 	if m.blk != nil && m.blk.force[0] != nil {
 		force = m.blk.force
 	}
-	first := m.stage
 	idx, idy := 1/g.Dx, 1/g.Dy
 	// The forcings do not depend on the state: evaluate them first, so that
 	// each layer adds its part in its own pass.
 	var ext [2][]complex128
-	if len(m.forcings) > 0 {
+	if external && len(m.forcings) > 0 {
 		ext = m.fbuf
 		for n := range 2 {
 			clear(ext[n])

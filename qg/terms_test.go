@@ -48,7 +48,7 @@ func TestTermTendencySum(t *testing.T) {
 		full := [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
 		psi := [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
 		var rates [NumTerms]float64
-		m.tendency(full, q, psi, 0, &rates, nil)
+		m.tendency(full, q, psi, 0, false, true, &rates, nil)
 		sum := [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
 		one := [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
 		for term := range NumTerms {
