@@ -5,12 +5,12 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"math"
 	"os"
 	"strings"
 
 	"github.com/BurntSushi/toml"
 
+	"github.com/eddyblock/eddyblock/internal/check"
 	"github.com/eddyblock/eddyblock/qg"
 	"github.com/eddyblock/eddyblock/qg/block"
 	"github.com/eddyblock/eddyblock/qg/diag"
@@ -74,13 +74,13 @@ func (c *Config) Validate() error {
 		return err
 	}
 	r := c.Run
-	for _, f := range []struct {
-		key string
-		v   float64
-		pos bool
-	}{{"run.days", r.Days, true}, {"run.spin_up_days", r.SpinUpDays, false}, {"run.report_days", r.ReportDays, true}} {
-		if math.IsNaN(f.v) || math.IsInf(f.v, 0) || f.v < 0 || (f.pos && f.v == 0) {
-			return &qg.FieldError{Field: f.key, Value: f.v, Why: "must be a finite number of days, greater than zero"}
+	for _, err := range []error{
+		check.Positive("run.days", r.Days),
+		check.NonNegative("run.spin_up_days", r.SpinUpDays),
+		check.Positive("run.report_days", r.ReportDays),
+	} {
+		if err != nil {
+			return err
 		}
 	}
 	if r.SpinUpDays >= r.Days {

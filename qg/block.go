@@ -2,7 +2,8 @@ package qg
 
 import (
 	"fmt"
-	"math"
+
+	"github.com/eddyblock/eddyblock/internal/check"
 )
 
 // BlockMode says how a prescribed block is maintained.
@@ -58,11 +59,11 @@ func (m *Model) SetBlock(b Block) error {
 	switch b.Mode {
 	case Fixed, Forced, Free:
 	case Relaxed:
-		if math.IsNaN(b.RelaxTime) || math.IsInf(b.RelaxTime, 0) || b.RelaxTime <= 0 {
-			return &FieldError{"block.relax_time", b.RelaxTime, "must be a finite number greater than zero"}
+		if err := check.Positive("block.relax_time", b.RelaxTime); err != nil {
+			return err
 		}
 	default:
-		return &FieldError{"block.mode", string(b.Mode), `must be "fixed", "forced", "relaxed" or "free"`}
+		return &FieldError{Field: "block.mode", Value: string(b.Mode), Why: `must be "fixed", "forced", "relaxed" or "free"`}
 	}
 	ns, np := len(m.g.k2), m.g.Nx*m.g.Ny
 	bs := &blockState{mode: b.Mode, linear: b.Linear, tau: b.RelaxTime}

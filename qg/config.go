@@ -3,6 +3,8 @@ package qg
 import (
 	"fmt"
 	"math"
+
+	"github.com/eddyblock/eddyblock/internal/check"
 )
 
 // Scheme names a time-stepping scheme.
@@ -99,39 +101,12 @@ func DefaultConfig() Config {
 }
 
 // FieldError reports a configuration value that is out of range. Field is
-// the configuration key, as written in a configuration file.
-type FieldError struct {
-	Field string
-	Value any
-	Why   string
-}
-
-func (e *FieldError) Error() string {
-	return fmt.Sprintf("config: %s = %v: %s", e.Field, e.Value, e.Why)
-}
+// the configuration key, as written in a configuration file; every
+// configuration of the project (model, block, wave source, experiment)
+// reports its bad values with it.
+type FieldError = check.FieldError
 
 func isPow2(n int) bool { return n > 0 && n&(n-1) == 0 }
-
-func positiveFinite(key string, v float64) error {
-	if math.IsNaN(v) || math.IsInf(v, 0) || v <= 0 {
-		return &FieldError{key, v, "must be a finite number greater than zero"}
-	}
-	return nil
-}
-
-func nonNegFinite(key string, v float64) error {
-	if math.IsNaN(v) || math.IsInf(v, 0) || v < 0 {
-		return &FieldError{key, v, "must be a finite number, zero or greater"}
-	}
-	return nil
-}
-
-func finite(key string, v float64) error {
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return &FieldError{key, v, "must be a finite number"}
-	}
-	return nil
-}
 
 // Validate checks every field and returns the first problem found, as a
 // *FieldError naming the key. It does not check dt against the flow; NewModel
@@ -142,20 +117,20 @@ func (c *Config) Validate() error {
 		n   int
 	}{{"nx", c.Nx}, {"ny", c.Ny}} {
 		if g.n < 8 || !isPow2(g.n) {
-			return &FieldError{g.key, g.n, "grid size must be a power of two, at least 8"}
+			return &FieldError{Field: g.key, Value: g.n, Why: "grid size must be a power of two, at least 8"}
 		}
 		if g.n > 8192 {
-			return &FieldError{g.key, g.n, "grid size above 8192 is not supported"}
+			return &FieldError{Field: g.key, Value: g.n, Why: "grid size above 8192 is not supported"}
 		}
 	}
 	checks := []error{
-		positiveFinite("lx", c.Lx), positiveFinite("ly", c.Ly),
-		positiveFinite("f0", c.F0), nonNegFinite("beta", c.Beta),
-		positiveFinite("ld", c.Ld), positiveFinite("delta", c.Delta),
-		finite("u1", c.U1), finite("u2", c.U2),
-		nonNegFinite("drag", c.Drag),
-		positiveFinite("dt", c.Dt), positiveFinite("max_cfl", c.MaxCFL),
-		nonNegFinite("sponge.rate", c.Sponge.Rate),
+		check.Positive("lx", c.Lx), check.Positive("ly", c.Ly),
+		check.Positive("f0", c.F0), check.NonNegative("beta", c.Beta),
+		check.Positive("ld", c.Ld), check.Positive("delta", c.Delta),
+		check.Finite("u1", c.U1), check.Finite("u2", c.U2),
+		check.NonNegative("drag", c.Drag),
+		check.Positive("dt", c.Dt), check.Positive("max_cfl", c.MaxCFL),
+		check.NonNegative("sponge.rate", c.Sponge.Rate),
 	}
 	for _, err := range checks {
 		if err != nil {
@@ -165,43 +140,43 @@ func (c *Config) Validate() error {
 	switch c.Scheme {
 	case RK4, AB3:
 	default:
-		return &FieldError{"scheme", string(c.Scheme), `must be "rk4" or "ab3"`}
+		return &FieldError{Field: "scheme", Value: string(c.Scheme), Why: `must be "rk4" or "ab3"`}
 	}
 	if c.Workers < 1 {
-		return &FieldError{"workers", c.Workers, "must be at least 1"}
+		return &FieldError{Field: "workers", Value: c.Workers, Why: "must be at least 1"}
 	}
 	d := c.ScaleSelective
 	switch d.Kind {
 	case NoScaleSelective:
 	case CutoffFilter:
-		if err := positiveFinite("scale_selective.filter_time", d.FilterTime); err != nil {
+		if err := check.Positive("scale_selective.filter_time", d.FilterTime); err != nil {
 			return err
 		}
 		if !(d.FilterCutoff > 0 && d.FilterCutoff < 1) {
-			return &FieldError{"scale_selective.filter_cutoff", d.FilterCutoff, "must lie strictly between 0 and 1"}
+			return &FieldError{Field: "scale_selective.filter_cutoff", Value: d.FilterCutoff, Why: "must lie strictly between 0 and 1"}
 		}
-		if err := positiveFinite("scale_selective.filter_order", d.FilterOrder); err != nil {
+		if err := check.Positive("scale_selective.filter_order", d.FilterOrder); err != nil {
 			return err
 		}
 	case Hyperviscosity:
-		if err := positiveFinite("scale_selective.viscosity", d.Viscosity); err != nil {
+		if err := check.Positive("scale_selective.viscosity", d.Viscosity); err != nil {
 			return err
 		}
 		if d.Order < 1 || d.Order > 8 {
-			return &FieldError{"scale_selective.order", d.Order, "must be an integer from 1 (Laplacian) to 8"}
+			return &FieldError{Field: "scale_selective.order", Value: d.Order, Why: "must be an integer from 1 (Laplacian) to 8"}
 		}
 	default:
-		return &FieldError{"scale_selective.kind", string(d.Kind), `must be "none", "filter" or "hyperviscosity"`}
+		return &FieldError{Field: "scale_selective.kind", Value: string(d.Kind), Why: `must be "none", "filter" or "hyperviscosity"`}
 	}
 	if c.Sponge.Rate > 0 {
-		if err := positiveFinite("sponge.width", c.Sponge.Width); err != nil {
+		if err := check.Positive("sponge.width", c.Sponge.Width); err != nil {
 			return err
 		}
 		if c.Sponge.Width > c.Lx {
-			return &FieldError{"sponge.width", c.Sponge.Width, fmt.Sprintf("must not exceed the domain length lx = %g m", c.Lx)}
+			return &FieldError{Field: "sponge.width", Value: c.Sponge.Width, Why: fmt.Sprintf("must not exceed the domain length lx = %g m", c.Lx)}
 		}
 		if math.IsNaN(c.Sponge.X) || c.Sponge.X < 0 || c.Sponge.X > c.Lx {
-			return &FieldError{"sponge.x", c.Sponge.X, fmt.Sprintf("must lie in the domain, 0 to lx = %g m", c.Lx)}
+			return &FieldError{Field: "sponge.x", Value: c.Sponge.X, Why: fmt.Sprintf("must lie in the domain, 0 to lx = %g m", c.Lx)}
 		}
 	}
 	return nil

@@ -227,7 +227,7 @@ func (m *Model) checkLinearStability() error {
 	c := &m.cfg
 	umax := math.Max(math.Abs(c.U1), math.Abs(c.U2))
 	if cfl := umax * c.Dt / m.g.Dx; cfl > c.MaxCFL {
-		return &FieldError{"dt", c.Dt, fmt.Sprintf("the imposed flow alone gives a CFL number %.3g over max_cfl = %g; dt must be below %.4g s", cfl, c.MaxCFL, c.MaxCFL*m.g.Dx/umax)}
+		return &FieldError{Field: "dt", Value: c.Dt, Why: fmt.Sprintf("the imposed flow alone gives a CFL number %.3g over max_cfl = %g; dt must be below %.4g s", cfl, c.MaxCFL, c.MaxCFL*m.g.Dx/umax)}
 	}
 	var wmax float64
 	for p, k2 := range m.g.k2 {
@@ -255,7 +255,7 @@ func (m *Model) checkLinearStability() error {
 		limit = 0.72 // AB3 on the imaginary axis, 0.7236 (from memory)
 	}
 	if wmax*c.Dt > limit {
-		return &FieldError{"dt", c.Dt, fmt.Sprintf("the fastest linear wave (ω = %.3g s⁻¹) is unstable with %s; dt must be below %.4g s", wmax, c.Scheme, limit/wmax)}
+		return &FieldError{Field: "dt", Value: c.Dt, Why: fmt.Sprintf("the fastest linear wave (ω = %.3g s⁻¹) is unstable with %s; dt must be below %.4g s", wmax, c.Scheme, limit/wmax)}
 	}
 	// Hyperviscosity is explicit: its fastest damping rate must lie in the
 	// scheme's stability interval on the negative real axis.
@@ -269,7 +269,7 @@ func (m *Model) checkLinearStability() error {
 			real = 6.0 / 11 // AB3 on the negative real axis (from memory)
 		}
 		if hmax*c.Dt > real {
-			return &FieldError{"scale_selective.viscosity", c.ScaleSelective.Viscosity, fmt.Sprintf("the hyperviscous damping rate at the largest retained wavenumber, %.3g s⁻¹, is unstable with %s at dt = %g s; lower the viscosity below %.4g or dt below %.4g s", hmax, c.Scheme, c.Dt, c.ScaleSelective.Viscosity*real/(hmax*c.Dt), real/hmax)}
+			return &FieldError{Field: "scale_selective.viscosity", Value: c.ScaleSelective.Viscosity, Why: fmt.Sprintf("the hyperviscous damping rate at the largest retained wavenumber, %.3g s⁻¹, is unstable with %s at dt = %g s; lower the viscosity below %.4g or dt below %.4g s", hmax, c.Scheme, c.Dt, c.ScaleSelective.Viscosity*real/(hmax*c.Dt), real/hmax)}
 		}
 	}
 	return nil

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/eddyblock/eddyblock/internal/check"
 	"github.com/eddyblock/eddyblock/qg"
 )
 
@@ -180,14 +181,9 @@ func fieldErr(key string, v any, format string, args ...any) error {
 	return &qg.FieldError{Field: prefix + key, Value: v, Why: fmt.Sprintf(format, args...)}
 }
 
-func isFinite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
+func isFinite(v float64) bool { return check.IsFinite(v) }
 
-func positive(key string, v float64) error {
-	if !isFinite(v) || v <= 0 {
-		return fieldErr(key, v, "must be a finite number greater than zero")
-	}
-	return nil
-}
+func positive(key string, v float64) error { return check.Positive(prefix+key, v) }
 
 // Validate checks the configuration on its own and returns the first
 // problem found as a *qg.FieldError naming the key (for example

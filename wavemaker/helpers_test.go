@@ -62,7 +62,8 @@ func pair(n int) [2][]complex128 {
 // the model's inversion and qg.Energy.
 func incrementEnergy(m *qg.Model, dq, psi [2][]complex128) float64 {
 	m.Inverter().Invert(psi, dq)
-	ke, ape := qg.Energy(m.Grid(), m.Physics(), psi)
+	k, p := m.Grid().EnergyProduct(m.Physics(), psi, psi)
+	ke, ape := k/2, p/2
 	return ke + ape
 }
 

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/eddyblock/eddyblock/internal/check"
 	"github.com/eddyblock/eddyblock/qg"
 )
 
@@ -157,18 +158,10 @@ func (c Config) Block(cfg qg.Config) (qg.Block, error) {
 	return qg.Block{Psi: psi, Mode: c.Mode, RelaxTime: c.RelaxTime, Linear: c.Linear}, nil
 }
 
-func positive(key string, v float64) error {
-	if math.IsNaN(v) || math.IsInf(v, 0) || v <= 0 {
-		return &qg.FieldError{Field: key, Value: v, Why: "must be a finite number greater than zero"}
-	}
-	return nil
-}
+func positive(key string, v float64) error { return check.Positive(key, v) }
 
 func inDomain(key string, v, l float64, name string) error {
-	if math.IsNaN(v) || v < 0 || v > l {
-		return &qg.FieldError{Field: key, Value: v, Why: fmt.Sprintf("must lie in the domain, 0 to %s = %g m", name, l)}
-	}
-	return nil
+	return check.Within(key, v, 0, l, fmt.Sprintf("the domain, 0 to %s = %g m", name, l))
 }
 
 // amplitudeKeys checks an amplitude given as height or psi; required says

@@ -367,4 +367,3 @@ func innerProduct(g *qg.Grid, ph qg.Physics, norm Norm, x, y [2][]complex128) fl
 
 // dotc returns Re(a·conj(b)).
 func dotc(a, b complex128) float64 { return real(a)*real(b) + imag(a)*imag(b) }
-
