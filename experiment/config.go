@@ -44,8 +44,6 @@ type DiagConfig struct {
 // BlockConfig is the prescribed block; Shape "none" runs without one.
 type BlockConfig = block.Config
 
-// NoBlock is the Shape of an experiment without a block.
-const NoBlock block.Shape = "none"
 
 // RunConfig sets the length of a run and what it records.
 type RunConfig struct {
@@ -65,10 +63,8 @@ func (c *Config) Validate() error {
 	if err := prefix("model.", c.Model.CheckTimeStep()); err != nil {
 		return err
 	}
-	if c.Block.Shape != NoBlock && c.Block.Shape != "" {
-		if err := c.Block.Validate(c.Model); err != nil {
-			return err
-		}
+	if err := c.Block.Validate(c.Model); err != nil {
+		return err
 	}
 	if err := c.Wavemaker.ValidateFor(c.Model); err != nil {
 		return err

@@ -46,7 +46,7 @@ func New(c Config) (e *Experiment, err error) {
 		}
 	}()
 	e = &Experiment{Config: c, Model: m}
-	if c.Block.Shape != NoBlock && c.Block.Shape != "" {
+	if c.Block.Enabled() {
 		b, err := c.Block.Block(c.Model)
 		if err != nil {
 			return nil, err

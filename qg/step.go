@@ -67,6 +67,16 @@ func (m *Model) Run(n int) error {
 	return nil
 }
 
+// RunUntil steps until the model time reaches t (s), rounded to a whole
+// number of steps, stopping at the first error. A t before the model time
+// is an error.
+func (m *Model) RunUntil(t float64) error {
+	if math.IsNaN(t) || math.IsInf(t, 0) || t < m.t-m.cfg.Dt/2 {
+		return fmt.Errorf("qg: RunUntil(%g s): the model is at t = %g s and steps only forward", t, m.t)
+	}
+	return m.Run(int(math.Round((t - m.t) / m.cfg.Dt)))
+}
+
 // checkCFL is called after the first stage of a step.
 func (m *Model) checkCFL() error {
 	if m.cfl != m.cfl || math.IsInf(m.cfl, 0) {

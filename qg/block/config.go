@@ -13,6 +13,7 @@ type Shape string
 
 // Block shapes.
 const (
+	None        Shape = "none"   // no block (an empty Shape means the same)
 	DipoleShape Shape = "dipole" // two Gaussian vortices, see Dipole
 	ModonShape  Shape = "modon"  // the β-plane modon, see Modon
 )
@@ -100,7 +101,7 @@ func (m Modon) Streamfunction(cfg qg.Config) ([2][]float64, error) {
 // Config is a block: its shape, its parameters and how the model maintains
 // it. Keys are those of a [block] table in a configuration file.
 type Config struct {
-	Shape Shape        `toml:"shape" json:"shape"` // "dipole" or "modon"
+	Shape Shape        `toml:"shape" json:"shape"` // "none", "dipole" or "modon"
 	Mode  qg.BlockMode `toml:"mode" json:"mode"`   // "fixed", "forced", "relaxed" or "free"
 	// RelaxTime is the relaxation time τ_r of the relaxed mode, s.
 	RelaxTime float64 `toml:"relax_time" json:"relax_time"`
@@ -110,12 +111,20 @@ type Config struct {
 	Modon  Modon  `toml:"modon" json:"modon"`
 }
 
+// Enabled reports whether the configuration asks for a block (a Shape
+// other than None or empty).
+func (c Config) Enabled() bool { return c.Shape != None && c.Shape != "" }
+
 // Validate checks the block against the model configuration cfg (which it
 // validates too) and returns the first problem found, as a *qg.FieldError
-// naming the key (e.g. "block.dipole.radius").
+// naming the key (e.g. "block.dipole.radius"). Without a block (Shape None)
+// nothing else of the table is checked.
 func (c Config) Validate(cfg qg.Config) error {
 	if err := cfg.Validate(); err != nil {
 		return err
+	}
+	if !c.Enabled() {
+		return nil
 	}
 	switch c.Mode {
 	case qg.Fixed, qg.Forced, qg.Free:
@@ -135,15 +144,18 @@ func (c Config) Validate(cfg qg.Config) error {
 	case ModonShape:
 		return c.Modon.validate("block.modon", cfg)
 	default:
-		return &qg.FieldError{Field: "block.shape", Value: string(c.Shape), Why: `must be "dipole" or "modon"`}
+		return &qg.FieldError{Field: "block.shape", Value: string(c.Shape), Why: `must be "none", "dipole" or "modon"`}
 	}
 }
 
 // Block validates c and returns the qg.Block to pass to Model.SetBlock, with
-// the shape gridded on the grid of cfg.
+// the shape gridded on the grid of cfg. Without a block it is an error.
 func (c Config) Block(cfg qg.Config) (qg.Block, error) {
 	if err := c.Validate(cfg); err != nil {
 		return qg.Block{}, err
+	}
+	if !c.Enabled() {
+		return qg.Block{}, &qg.FieldError{Field: "block.shape", Value: string(c.Shape), Why: "there is no block to build"}
 	}
 	var psi [2][]float64
 	var err error
