@@ -1,0 +1,185 @@
+//go:build js && wasm
+
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"math"
+	"sync"
+	"syscall/js"
+	"time"
+
+	"github.com/hajimehoshi/ebiten/v2"
+	"github.com/hajimehoshi/ebiten/v2/inpututil"
+)
+
+// maxPixels bounds the picture's size in device pixels: a larger canvas
+// is drawn at a lower resolution and scaled up, so that a big screen does
+// not cost the model its frame budget.
+const maxPixels = 1600 * 600
+
+// game is the ebiten game around an App. The page's calls (set, command,
+// status) and ebiten's Update and Draw take turns through mu.
+type game struct {
+	mu      sync.Mutex
+	app     *App
+	pt      painter
+	img     *ebiten.Image
+	pix     []byte
+	w, h    int
+	painted int
+	first   float64 // the page clock (performance.now, ms) at the first frame
+}
+
+// Update does one frame's work: keyboard shortcuts, then the App's frame.
+func (g *game) Update() error {
+	var cmd string
+	switch {
+	case inpututil.IsKeyJustPressed(ebiten.KeySpace):
+		cmd = "toggle"
+	case inpututil.IsKeyJustPressed(ebiten.KeyPeriod):
+		cmd = "step"
+	case inpututil.IsKeyJustPressed(ebiten.KeyR):
+		cmd = "reset"
+	case inpututil.IsKeyJustPressed(ebiten.KeyC):
+		cmd = "clear"
+	}
+	g.mu.Lock()
+	defer g.mu.Unlock()
+	if cmd != "" {
+		_ = g.app.Command(cmd) // an error is in the status
+	}
+	g.app.Frame(time.Now())
+	return nil
+}
+
+// Draw repaints the pixel buffer when the picture changed and shows it.
+func (g *game) Draw(screen *ebiten.Image) {
+	b := screen.Bounds()
+	w, h := b.Dx(), b.Dy()
+	if w <= 0 || h <= 0 {
+		return
+	}
+	if g.img == nil || w != g.w || h != g.h {
+		if g.img != nil {
+			g.img.Deallocate()
+		}
+		g.img = ebiten.NewImage(w, h)
+		g.pix = make([]byte, 4*w*h)
+		g.w, g.h, g.painted = w, h, -1
+	}
+	g.mu.Lock()
+	changed := g.painted != g.app.version
+	if changed {
+		g.app.Paint(&g.pt, g.pix, w, h)
+		g.painted = g.app.version
+	}
+	if g.first == 0 {
+		g.first = js.Global().Get("performance").Call("now").Float()
+	}
+	g.mu.Unlock()
+	if changed {
+		g.img.WritePixels(g.pix)
+	}
+	screen.DrawImage(g.img, nil)
+}
+
+// LayoutF draws in device pixels (sharp on high-density screens), at most
+// maxPixels of them.
+func (g *game) LayoutF(ow, oh float64) (float64, float64) {
+	s := ebiten.Monitor().DeviceScaleFactor()
+	w, h := ow*s, oh*s
+	if w*h > maxPixels {
+		f := math.Sqrt(maxPixels / (w * h))
+		w, h = w*f, h*f
+	}
+	return math.Max(1, math.Floor(w)), math.Max(1, math.Floor(h))
+}
+
+func (g *game) Layout(ow, oh int) (int, int) { panic("LayoutF is used") }
+
+// controlInfo is a control as the page's script sees it.
+type controlInfo struct {
+	Name    string   `json:"name"`
+	Label   string   `json:"label"`
+	Unit    string   `json:"unit"`
+	Options []option `json:"options,omitempty"`
+}
+
+func main() {
+	app, err := newApp(defaultScenario(), defaultGrid, time.Now())
+	if err != nil {
+		js.Global().Get("console").Call("error", "eddyblock: "+err.Error())
+		return
+	}
+	g := &game{app: app}
+	toJS := func(v any) any {
+		b, err := json.Marshal(v)
+		if err != nil {
+			return js.Null()
+		}
+		return js.Global().Get("JSON").Call("parse", string(b))
+	}
+	api := js.Global().Get("Object").New()
+	api.Set("set", js.FuncOf(func(this js.Value, args []js.Value) any {
+		if len(args) != 2 {
+			return "set(name, value) takes two arguments"
+		}
+		g.mu.Lock()
+		defer g.mu.Unlock()
+		if err := g.app.Set(args[0].String(), args[1].String()); err != nil {
+			return err.Error()
+		}
+		return ""
+	}))
+	api.Set("command", js.FuncOf(func(this js.Value, args []js.Value) any {
+		if len(args) != 1 {
+			return "command(name) takes one argument"
+		}
+		g.mu.Lock()
+		defer g.mu.Unlock()
+		if err := g.app.Command(args[0].String()); err != nil {
+			return err.Error()
+		}
+		return ""
+	}))
+	api.Set("status", js.FuncOf(func(this js.Value, args []js.Value) any {
+		g.mu.Lock()
+		st := g.app.Status()
+		st.FirstFrameAt = g.first
+		g.mu.Unlock()
+		return toJS(st)
+	}))
+	api.Set("controls", js.FuncOf(func(this js.Value, args []js.Value) any {
+		var cs []controlInfo
+		for _, c := range controls() {
+			cs = append(cs, controlInfo{c.Name, c.Label, c.Unit, c.Options})
+		}
+		return toJS(cs)
+	}))
+	js.Global().Set("eddyblock", api)
+	if f := js.Global().Get("eddyblockReady"); f.Type() == js.TypeFunction {
+		f.Invoke()
+	}
+
+	ebiten.SetTPS(ebiten.SyncWithFPS)
+	ebiten.SetRunnableOnUnfocused(true)
+	ebiten.SetScreenClearedEveryFrame(false)
+	if err := ebiten.RunGameWithOptions(g, &ebiten.RunGameOptions{InitUnfocused: true}); err != nil {
+		js.Global().Get("console").Call("error", fmt.Sprintf("eddyblock: %v", err))
+	}
+}
+
+// defaultScenario is the scenario the page starts with: the one named in
+// the page address (?scenario=name) if it is a built-in, else the default.
+func defaultScenario() string {
+	q := js.Global().Get("location").Get("search").String()
+	p := js.Global().Get("URLSearchParams").New(q)
+	if v := p.Call("get", "scenario"); v.Type() == js.TypeString {
+		if _, err := newSettings(v.String(), defaultGrid); err == nil {
+			return v.String()
+		}
+	}
+	return "wave-train-strained-by-block"
+}
