@@ -5,6 +5,7 @@ import (
 	"math"
 	"testing"
 
+	"github.com/eddyblock/eddyblock/internal/testenv"
 	"github.com/eddyblock/eddyblock/qg"
 	"github.com/eddyblock/eddyblock/qg/diag"
 	"github.com/eddyblock/eddyblock/qg/fft"
@@ -87,9 +88,7 @@ func checkBudget(t *testing.T, s diag.Summary) {
 // TestDefaultExperiment runs the built-in experiment to its end and checks
 // its energy budget and what its eddies do to the block.
 func TestDefaultExperiment(t *testing.T) {
-	if testing.Short() {
-		t.Skip("runs the full default experiment (about two minutes)")
-	}
+	testenv.Long(t) // runs the full default experiment (about two minutes)
 	t.Parallel()
 	c := Default()
 	if c.Diag.Norm != diag.LayerNorm {
@@ -145,9 +144,7 @@ func checkEnergyFit(t *testing.T, e *Experiment) {
 // 1983 for the E-vector view of the same fluxes) fill the easterlies
 // between the lobes and erode the block.
 func TestStochasticSourceErodes(t *testing.T) {
-	if testing.Short() {
-		t.Skip("runs a 60-day experiment")
-	}
+	testenv.Long(t) // runs a 60-day experiment
 	t.Parallel()
 	c := WhiteNoiseControl()
 	c.Run.Days, c.Run.SpinUpDays = 60, 20
@@ -167,9 +164,7 @@ func TestStochasticSourceErodes(t *testing.T) {
 // across it, and only its inner half lies on a lobe), and their heat fluxes
 // erode its thermal anomaly (Shutts 1983; Hoskins, James & White 1983).
 func TestStormTrack(t *testing.T) {
-	if testing.Short() {
-		t.Skip("runs a 120-day experiment")
-	}
+	testenv.Long(t) // runs a 120-day experiment
 	t.Parallel()
 	e, s := runExperiment(t, StormTrack())
 	checkBudget(t, s)
