@@ -26,7 +26,7 @@ import (
 // them meridionally. A sponge band 6000 km wide from 3000 km downstream of
 // the block to the western edge absorbs the eddies that have passed the
 // block before they wrap around. The eddies' projections on the block use
-// the plain mass-weighted ψ inner product of the design notes.
+// the plain mass-weighted ψ inner product.
 //
 // In the same place a stochastic source (white noise over a broad band of
 // scales) erodes the block instead, and so does a stochastic storm track

@@ -57,7 +57,7 @@ func fit(t *testing.T, e *Experiment, name string, norm diag.Norm) diag.Projecti
 // checkBudget checks the energy budget of a finished experiment.
 func checkBudget(t *testing.T, s diag.Summary) {
 	t.Helper()
-	// Energy budget of the model (DESIGN §8): every term is booked, so the
+	// Energy budget of the model: every term is booked, so the
 	// change of energy over the averaging window equals the time integral
 	// of the budget terms; the ledger's quadrature is exact to the scheme's
 	// O(dt⁴) error, so 1e-4 of the throughput is a loose bound.
@@ -101,7 +101,7 @@ func TestDefaultExperiment(t *testing.T) {
 	// reinforces the block through its vorticity fluxes, with a forcing
 	// pattern like the block's own (Shutts 1983, Q. J. R. Meteorol. Soc.
 	// 109; the E-vector view: Hoskins, James & White 1983, J. Atmos. Sci.
-	// 40): in the plain ψ inner product of the design notes (§6), the
+	// 40): in the plain ψ inner product, the
 	// projection is positive and the pattern correlation above 0.5 (issue
 	// requirement), and the forced block's time mean is stronger than the
 	// block as prescribed.

@@ -85,7 +85,7 @@ func TestInvariantEnergy(t *testing.T) {
 	if r := math.Abs(led[TermAdvection]) / e0; r > 1e-12 {
 		t.Errorf("ledger advection term %.3g of the energy, want ≈ 0", r)
 	}
-	// β alone does no work, and U1 = U2 = 0 (Galerkin invariant; DESIGN §2).
+	// β alone does no work, and U1 = U2 = 0 (Galerkin invariant; package qg).
 	if r := math.Abs(led[TermShear]) / e0; r > 1e-12 {
 		t.Errorf("ledger shear term %.3g of the energy with U1 = U2 = 0, want ≈ 0", r)
 	}
@@ -194,7 +194,7 @@ func TestFailedStepRestoresLedger(t *testing.T) {
 	}
 }
 
-// TestLedgerClosure checks the energy budget of the model (DESIGN §8,
+// TestLedgerClosure checks the energy budget of the model (the model's energy budget,
 // "energy budget of the model"; Ledger doc): with shear, β, Ekman drag and
 // either dissipation, the sum of the ledger's terms equals the change of
 // KE + APE up to the time-stepping error, and each loss term has the sign

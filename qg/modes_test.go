@@ -334,7 +334,7 @@ func (f modeWaveForcing) AddTendency(dq [2][]complex128, t float64) {
 }
 
 // The forced mode's steady forcing balances only the block's own dynamics
-// (DESIGN §5: "G balances the block's own advection, the background terms
+// (package qg, block modes: "G balances the block's own advection, the background terms
 // and dissipation"), not a user Forcing such as a wave source: otherwise a
 // time-dependent W(t) would be replaced by W(t) − W(t₀), a steady spurious
 // forcing. So the run must not depend on whether the Forcing was added

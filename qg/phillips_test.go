@@ -48,7 +48,7 @@ func chkPhillipsC(beta, f, k2, um, us float64) complex128 {
 // A = P⁻¹(diag(U) P + diag(Qy)).
 func chkEigenC(t testing.TB, beta, ld, delta, u1, u2, k2 float64) [2]complex128 {
 	t.Helper()
-	f1 := 1 / (ld * ld * (1 + delta)) // DESIGN §2: F1 = 1/(Ld²(1+δ)), F2 = δF1
+	f1 := 1 / (ld * ld * (1 + delta)) // package qg: F1 = 1/(Ld²(1+δ)), F2 = δF1
 	f2 := delta * f1
 	q1y, q2y := beta+f1*(u1-u2), beta-f2*(u1-u2)
 	p := mat.NewDense(2, 2, []float64{-k2 - f1, f1, f2, -k2 - f2})
@@ -120,7 +120,7 @@ func TestPhillipsGrowthRateEqualLayers(t *testing.T) {
 	cfg.Dt = 3600
 	m := chkModel(t, cfg)
 	g := m.Grid()
-	f := 1 / (2 * cfg.Ld * cfg.Ld) // F = F1 = F2 = 1/(2Ld²) for δ = 1 (DESIGN §2)
+	f := 1 / (2 * cfg.Ld * cfg.Ld) // F = F1 = F2 = 1/(2Ld²) for δ = 1 (package qg)
 	um, us := (cfg.U1+cfg.U2)/2, (cfg.U1-cfg.U2)/2
 
 	sigma := func(i, j int) float64 {

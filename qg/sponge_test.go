@@ -85,7 +85,7 @@ func TestSpongeAbsorbsPacket(t *testing.T) {
 
 // The energy the ledger books to the sponge matches the change of the
 // model's energy when the sponge is the only non-conservative term (the
-// model's energy budget, DESIGN §8: the advection by the uniform flow and
+// model's energy budget: the advection by the uniform flow and
 // the packet's own advection do no work). With a short time step the
 // time-stepping error of the advection (RK4's damping of order (ω dt)⁶ per
 // step) is far below the tolerance, so the booking is checked to 1e-6.

@@ -9,7 +9,7 @@ import (
 // TestTermTendencySum checks that the single-term tendencies add up to the
 // stepper's full tendency, so diagnostics built on TermTendency see the
 // same equations the model integrates. The reference for each term is its
-// definition in DESIGN §2 (common practice), evaluated independently here
+// definition of package qg (common practice), evaluated independently here
 // for the drag and shear terms.
 func TestTermTendencySum(t *testing.T) {
 	for _, mode := range []BlockMode{"", Fixed, Forced, Relaxed} {
@@ -75,7 +75,7 @@ func TestTermTendencySum(t *testing.T) {
 		if rel := math.Sqrt(num / den); rel > 1e-12 {
 			t.Errorf("mode %q: terms add up to the tendency within %.3g, want < 1e-12", mode, rel)
 		}
-		// Drag: −r ∇²ψ2 = r K² ψ̂2 on the lower layer only (DESIGN §2).
+		// Drag: −r ∇²ψ2 = r K² ψ̂2 on the lower layer only (package qg).
 		m.TermTendency(TermDrag, one, q, 0)
 		m.Inverter().Invert(psi, q)
 		g := m.Grid()

@@ -11,8 +11,8 @@ import (
 )
 
 // TestWorkersBitIdentical checks that the state after a number of steps is
-// bit-for-bit the same whatever the number of workers (the design notes'
-// reproducibility requirement; the reference is the one-worker run, which
+// bit-for-bit the same whatever the number of workers (package qg's
+// reproducibility contract; the reference is the one-worker run, which
 // has no concurrency at all).
 func TestWorkersBitIdentical(t *testing.T) {
 	for _, scheme := range []Scheme{RK4, AB3} {
@@ -76,7 +76,7 @@ func busy(n int) (stop func()) {
 // energy ledger bit for bit with a one-worker run (which has no concurrency
 // at all). A hand-off that let a pass begin before the previous one ended,
 // or let the caller go on before the partner finished, changes the bits
-// (the design notes' reproducibility requirement).
+// (package qg's reproducibility contract).
 func TestWorkersBitIdenticalUnderLoad(t *testing.T) {
 	const steps = 30
 	type result struct {

@@ -11,7 +11,7 @@ import (
 
 // TestEnergyKernelClosedForm checks the energy kernel computed through the
 // model's inversion against the closed forms that follow from the
-// two-layer inversion (DESIGN.md §2, as in Vallis 2017, Atmospheric and
+// two-layer inversion (package qg, as in Vallis 2017, Atmospheric and
 // Oceanic Fluid Dynamics, §5.3) worked by hand: with D = K²(K² + F1 + F2),
 // upper W1(K² + F2)/D, lower W2(K² + F1)/D, barotropic 1/K² (ψ1 = ψ2 = −q/K²),
 // baroclinic δ/(K² + F1 + F2) (ψ1 = −q1/(K² + F1 + F2), ψ2 = −δψ1).
@@ -279,7 +279,7 @@ func TestOUIntegralVar(t *testing.T) {
 	}
 }
 
-// TestSeed checks reproducibility (DESIGN.md §3: random numbers from seeded
+// TestSeed checks reproducibility (package wavemaker: random numbers from seeded
 // generators in a fixed order): the same seed gives bit-identical increments,
 // another seed different ones; for white and red noise.
 func TestSeed(t *testing.T) {
@@ -323,7 +323,7 @@ func TestSeed(t *testing.T) {
 }
 
 // TestModelRunReproducible checks that two model runs with the same seed
-// end bit-identical (DESIGN.md §3), with different worker counts.
+// end bit-identical (package qg: results do not depend on the number of workers), with different worker counts.
 func TestModelRunReproducible(t *testing.T) {
 	run := func(workers int) [2][]float64 {
 		qc := testModelConfig(3600, 1)

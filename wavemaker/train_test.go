@@ -49,7 +49,7 @@ func tendencyAt(tr *Train, ns int, tt float64) [2][]complex128 {
 // W1 = A·m(x, y)·cos(kx + ly − ωt) evaluated directly on the grid at several
 // times (an independent evaluation; the truncation to the retained modes
 // is negligible for this smooth patch), checks the baroclinic structure
-// q2 = −δq1 (DESIGN.md §2, H1ψ1 + H2ψ2 = 0), and that the spectrum peaks at
+// q2 = −δq1 (H1ψ1 + H2ψ2 = 0, package wavemaker), and that the spectrum peaks at
 // the set (k, l): the spectrum of m·e^{iθ} is the mask's spectrum shifted to
 // (k, l) (the shift theorem; Bracewell, The Fourier Transform and Its
 // Applications).

@@ -9,7 +9,7 @@ import (
 
 // The time mean of the model's PV equation is exact over the samples:
 // mean(−J(ψ, q)) = −J(ψ̄, q̄) − ∇·(u′q′) with eddies the departures from
-// the window mean, and every other term is linear (DESIGN §2, §6). So in the
+// the window mean, and every other term is linear (packages qg and diag). So in the
 // forced mode, with eddies from a deterministic wave source on a shear and no
 // stochastic source, the projections of the eddy, mean-flow, dissipation,
 // maintenance and forcing tendencies add up to the observed trend of the
@@ -63,7 +63,7 @@ func TestForcedBlockBudgetCloses(t *testing.T) {
 	t.Logf("residual %.3g day⁻¹, %.2g of the largest term", s.Residual, math.Abs(s.Residual)/big)
 	// The interface (stretching) part is purely baroclinic: its PV tendencies
 	// in the two layers are −F1·D and F2·D for one divergence D (since
-	// J(ψ1, ψ1 − ψ2) = J(ψ2, ψ1 − ψ2)), and W1F1 = W2F2 (DESIGN §2), so it
+	// J(ψ1, ψ1 − ψ2) = J(ψ2, ψ1 − ψ2)), and W1F1 = W2F2 (package qg), so it
 	// has no barotropic projection (by hand).
 	if math.Abs(s.EddyInterface.Barotropic) > 1e-9*big || s.EddyInterface.Baroclinic == 0 {
 		t.Errorf("interface part: barotropic rate %.3g (want 0), baroclinic %.3g (want ≠ 0)", s.EddyInterface.Barotropic, s.EddyInterface.Baroclinic)

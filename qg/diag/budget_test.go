@@ -53,9 +53,8 @@ func tstForcedRun(t testing.TB, nx, ny int) (*qg.Model, qg.Config) {
 
 // The energy budget closes: over the averaging window of a forced–
 // dissipative run, the change of total energy equals the time integral of
-// the budget terms of the Series (the energy budget of the model, DESIGN
-// §8) within 1 %; the drag term of the series matches the drag computed by
-// the test from the sampled states, −r·W2⟨|∇ψ2|²⟩ (DESIGN §2), integrated
+// the budget terms of the Series (the energy budget of the model) within 1 %; the drag term of the series matches the drag computed by
+// the test from the sampled states, −r·W2⟨|∇ψ2|²⟩ (package qg), integrated
 // by the trapezoidal rule, within 1 %. (Measured: 2e-6 and 6e-4.)
 func TestEnergyBudgetCloses(t *testing.T) {
 	m, cfg := tstForcedRun(t, 32, 32)
@@ -104,7 +103,7 @@ func TestEnergyBudgetCloses(t *testing.T) {
 		t.Errorf("drag %.6g vs %.6g from the states: relative error %.3g", drag, dragRef, e)
 	}
 	// The conversion from the imposed shear is W1F1(U1 − U2)⟨v(ψ1 − ψ2)⟩
-	// (by hand from the shear term of DESIGN §2: ⟨ψ_n ∂x q_n⟩ = −F_n⟨v_n
+	// (by hand from the shear term of package qg: ⟨ψ_n ∂x q_n⟩ = −F_n⟨v_n
 	// (ψ_m − ψ_n)⟩, W1F1 = W2F2, and ⟨v1 τ⟩ = ⟨v2 τ⟩); over the window the
 	// mean of ⟨vτ⟩ is the eddy heat flux plus the mean flow's ⟨v̄τ̄⟩.
 	sum := a.Summary()

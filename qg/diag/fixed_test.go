@@ -8,7 +8,7 @@ import (
 	"github.com/eddyblock/eddyblock/qg/fft"
 )
 
-// In the fixed mode the eddies are the model's state itself (DESIGN §6):
+// In the fixed mode the eddies are the model's state itself (package diag):
 // the eddy PV flux is the plain time mean of u′q′ over the samples, which
 // the test computes itself from the states it saw; with Options.Transient
 // it is the mean product of the departures from the time mean (two-pass).

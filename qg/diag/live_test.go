@@ -15,7 +15,7 @@ import (
 // checks against a two-pass computation), in the forced mode and in the
 // fixed mode (whose eddy moments include the mean products); its vorticity
 // and interface parts must add up to the whole convergence, since q′ = ζ′ +
-// F_n(ψ_m − ψ_n)′ (the PV definition of DESIGN §2); and once its buffers
+// F_n(ψ_m − ψ_n)′ (the PV definition of package qg); and once its buffers
 // exist it must not allocate.
 func TestEddyField(t *testing.T) {
 	for _, mode := range []qg.BlockMode{qg.Forced, qg.Fixed} {

@@ -90,16 +90,16 @@ func TestFitKnownTendencies(t *testing.T) {
 	}
 }
 
-// A block held by the forced mode (DESIGN §5) without eddies: the state
+// A block held by the forced mode (package qg) without eddies: the state
 // stays q_B, so the eddy terms and the trend vanish and the steady forcing
 // balances the mean-flow terms and the dissipation (the residual is zero).
 // Ekman drag on the lower layer, −r∇²ψ2, does work −W2·r·⟨|∇ψ_B|²⟩ on a
 // barotropic block whose energy norm is ⟨|∇ψ_B|²⟩, so in the energy inner
-// product r_drag = −W2·r exactly (by hand from the energy budget, DESIGN
-// §2); in the layer inner product, for the single mode (A, B)·cos kx cos ly,
+// product r_drag = −W2·r exactly (by hand from the energy budget of package
+// qg); in the layer inner product, for the single mode (A, B)·cos kx cos ly,
 // the inversion of the drag tendency (0, rK²B) gives ψ_t = −rB(F1, K² + F1)/
 // (K² + F1 + F2) and r_drag = −rB(W1F1A + W2(K² + F1)B)/((K² + F1 + F2)
-// (W1A² + W2B²)) (by hand from the inversion of DESIGN §2).
+// (W1A² + W2B²)) (by hand from the inversion of package qg).
 func TestForcedBlockWithoutEddies(t *testing.T) {
 	cfg := tstConfig(32, 32)
 	cfg.U1, cfg.U2 = 10, 4

@@ -18,7 +18,7 @@ func tstSum(x []float64) float64 {
 
 // Parseval's theorem: the spectra summed over the shells give the domain-mean
 // energies of qg.Energy (KE = ½Σ W_n⟨|∇ψ_n|²⟩, APE = ½W1F1⟨(ψ1 − ψ2)²⟩,
-// DESIGN §2), and the barotropic and baroclinic kinetic energies add up to
+// package qg), and the barotropic and baroclinic kinetic energies add up to
 // the layers' (W1|a|² + W2|b|² = |W1a + W2b|² + W1W2|a − b|², by hand).
 // The time-mean eddy spectra match the mean energy of the departures from
 // the time mean, computed by the test with qg.Energy; a single mode of

@@ -11,7 +11,7 @@ import (
 
 // tstGridded returns gridded ψ, u, v, q of layer n for spectral ψ, computed
 // independently of the package: spectral derivatives from the domain's
-// wavenumbers and the PV definition of DESIGN §2, q1 = ∇²ψ1 + F1(ψ2 − ψ1).
+// wavenumbers and the PV definition of package qg, q1 = ∇²ψ1 + F1(ψ2 − ψ1).
 func tstGridded(g *qg.Grid, ph qg.Physics, plan *fft.Plan2D, psi [2][]complex128, n int) (p, u, v, q []float64) {
 	ns, np := g.Len(), g.Nx*g.Ny
 	s := make([]complex128, ns)
@@ -53,7 +53,7 @@ func tstGridded(g *qg.Grid, ph qg.Physics, plan *fft.Plan2D, psi [2][]complex128
 // itself; (ii) the relative-vorticity and interface parts of the PV flux
 // convergence add up to the total, which the Accumulator takes from the
 // model's own PV (so the sum is a check, not an identity of the code);
-// (iii) the PV of ψ_t is the convergence (the inversion of DESIGN §2).
+// (iii) the PV of ψ_t is the convergence (the inversion of package qg).
 func TestSplitAndTwoPassOnRandomFields(t *testing.T) {
 	cfg := tstConfig(32, 32)
 	m := tstModel(t, cfg)

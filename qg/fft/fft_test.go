@@ -340,7 +340,7 @@ func TestSourceUnmodified(t *testing.T) {
 	}
 }
 
-// TestWorkersBitIdentical: results must not depend on the number of goroutines (DESIGN.md §3).
+// TestWorkersBitIdentical: results must not depend on the number of goroutines (package qg: results do not depend on the number of workers).
 func TestWorkersBitIdentical(t *testing.T) {
 	for _, sz := range [][2]int{{4, 4}, {8, 32}, {64, 8}, {128, 64}, {256, 256}} {
 		nx, ny := sz[0], sz[1]

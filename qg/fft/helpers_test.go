@@ -53,7 +53,7 @@ func TestHelpersStop(t *testing.T) {
 // while busy goroutines compete for the threads, and with one thread for
 // all, comparing each result bit for bit with a one-worker plan's: a
 // hand-off that let a phase start before the previous one ended would
-// show here (the results must not depend on scheduling; DESIGN.md §3).
+// show here (the results must not depend on scheduling; package qg).
 func TestWorkersBitIdenticalUnderLoad(t *testing.T) {
 	nx, ny := 64, 32
 	w := nx/2 + 1

@@ -93,7 +93,7 @@ func TestSetColumnsMatchesZeroedFull(t *testing.T) {
 }
 
 // TestSetColumnsWorkersBitIdentical: pruned results must not depend on the number of goroutines
-// (DESIGN.md §3).
+// (package qg: results do not depend on the number of workers).
 func TestSetColumnsWorkersBitIdentical(t *testing.T) {
 	for _, sz := range [][2]int{{8, 32}, {64, 8}, {128, 64}, {256, 256}} {
 		nx, ny := sz[0], sz[1]
