@@ -44,7 +44,6 @@ type DiagConfig struct {
 // BlockConfig is the prescribed block; Shape "none" runs without one.
 type BlockConfig = block.Config
 
-
 // RunConfig sets the length of a run and what it records.
 type RunConfig struct {
 	// Days is the length of the run, days of model time.
