@@ -76,7 +76,22 @@ type App struct {
 	frames     int
 	firstFrame time.Time
 	start      time.Time
-	version    int // incremented when the picture must be repainted
+	// liveVer, meanVer and overlayVer are incremented when the live
+	// field, the running-mean field or the overlay must be repainted.
+	liveVer, meanVer, overlayVer int
+
+	// workMs and paintMs are moving averages of the wall time of Frame and
+	// Paint, ms: where a frame's time goes, for the speed harness.
+	workMs, paintMs float64
+}
+
+// ema updates a moving average of durations in ms over about 20 frames.
+func ema(avg float64, d time.Duration) float64 {
+	ms := float64(d.Microseconds()) / 1000
+	if avg == 0 {
+		return ms
+	}
+	return avg + (ms-avg)/20
 }
 
 // newApp builds the instrument on the built-in scenario name at nx grid
@@ -173,7 +188,9 @@ func (a *App) build(s settings, carry bool) error {
 	a.indexPlot = ""
 	a.liveHold, a.meanHold = rangeHold{}, rangeHold{}
 	a.updateEddyEnergy()
-	a.version++
+	a.liveVer++
+	a.meanVer++
+	a.overlayVer++
 	return nil
 }
 
@@ -250,7 +267,6 @@ func (a *App) set1(name, value string) error {
 		a.meanName = fmt.Sprintf("%s%d", s.Mean, s.Layer)
 		a.meanStale, a.liveStale = true, true
 		a.liveHold, a.meanHold = rangeHold{}, rangeHold{}
-		a.version++
 	case schedule:
 		a.set = s
 	case rebuild:
@@ -284,7 +300,10 @@ func (a *App) Command(name string) error {
 		a.paused = true
 	case "resume":
 		a.paused = false
-		a.failure = nil // the next step shows whether it still fails
+		if a.failure != nil {
+			a.failure = nil // the next step shows whether it still fails
+			a.overlayVer++
+		}
 	case "toggle":
 		if a.paused || a.failure != nil {
 			return a.Command("resume")
@@ -292,7 +311,10 @@ func (a *App) Command(name string) error {
 		a.paused = true
 	case "step":
 		a.paused = true
-		a.failure = nil
+		if a.failure != nil {
+			a.failure = nil
+			a.overlayVer++
+		}
 		a.advance(1)
 	case "reset":
 		if err := a.build(a.set, false); err != nil {
@@ -325,6 +347,8 @@ func (a *App) Command(name string) error {
 // the live and running-mean fields when they changed, the one-number
 // answers once per summaryEvery, and the rate meters.
 func (a *App) Frame(now time.Time) {
+	t0 := time.Now()
+	defer func() { a.workMs = ema(a.workMs, time.Since(t0)) }()
 	if a.frames == 0 {
 		a.firstFrame = now
 	}
@@ -363,6 +387,7 @@ func (a *App) advance(n int) {
 // stop pauses the model after a failure.
 func (a *App) stop(err error) {
 	a.failure = err
+	a.overlayVer++ // the stopped model's frame
 	a.lastError = err.Error()
 	var se *qg.StepError
 	if !errors.As(err, &se) {
@@ -377,7 +402,7 @@ func (a *App) refresh(now time.Time) {
 		a.liveField()
 		a.liveHold.update(maxAbs(a.live), now)
 		a.liveStale = false
-		a.version++
+		a.liveVer++
 	}
 	d := a.exp.Diag
 	if n := d.Samples(); a.meanStale || n != a.meanSamples {
@@ -386,7 +411,7 @@ func (a *App) refresh(now time.Time) {
 		}
 		a.meanHold.update(maxAbs(a.mean), now)
 		a.meanSamples, a.meanStale = n, false
-		a.version++
+		a.meanVer++
 	}
 	if n := d.Samples(); n != a.summaryN && now.Sub(a.summaryAt) >= summaryEvery {
 		a.summaryAt, a.summaryN = now, n

@@ -4,6 +4,7 @@ import (
 	"image"
 	"image/color"
 	"math"
+	"time"
 
 	"github.com/eddyblock/eddyblock/output/palette"
 	"github.com/eddyblock/eddyblock/wavemaker"
@@ -65,6 +66,8 @@ type painter struct {
 // half the peak of each lobe) and the source's outline (its mask's
 // e-folding ellipses) over both, and the colour bars. It allocates nothing.
 func (a *App) Paint(pt *painter, pix []byte, w, h int) {
+	t0 := time.Now()
+	defer func() { a.paintMs = ema(a.paintMs, time.Since(t0)) }()
 	g := a.g
 	l := makeLayout(w, h, g.Lx/g.Ly)
 	for i := 0; i+3 < len(pix); i += 4 {

@@ -33,6 +33,8 @@ type Status struct {
 	// frame's document started loading) at the first frame drawn; set by
 	// the browser glue, 0 natively.
 	FirstFrameAt  float64 `json:"firstFrameAt"`
+	WorkMs        float64 `json:"workMs"`      // wall time of a frame's model work (steps, samples, fields), ms, moving average
+	PaintMs       float64 `json:"paintMs"`     // wall time of painting the picture, ms, moving average
 	Samples       int     `json:"samples"`     // samples in the running mean
 	MeanFromDay   float64 `json:"meanFromDay"` // the running mean's first sample, days (0 without samples)
 	Scenario      string  `json:"scenario"`
@@ -85,7 +87,7 @@ func (a *App) Status() Status {
 	fps, sps, dps := a.rates.get()
 	st := Status{
 		Day: m.Time() / 86400, Steps: m.Steps(), EddyEnergy: a.eddyEnergy, CFL: m.CFL(), MaxCFL: cfg.MaxCFL,
-		LastError: a.lastError, FPS: fps, StepsPerSecond: sps, DaysPerSecond: dps, Frames: a.frames,
+		LastError: a.lastError, FPS: fps, WorkMs: a.workMs, PaintMs: a.paintMs, StepsPerSecond: sps, DaysPerSecond: dps, Frames: a.frames,
 		Samples: a.exp.Diag.Samples(), Scenario: a.set.Scenario, Grid: fmt.Sprintf("%d×%d", cfg.Nx, cfg.Ny),
 		Dt: cfg.Dt, StepsPerFrame: a.set.StepsPerFrame, Answers: a.answers,
 		LiveRange: a.liveHold.m, MeanRange: a.meanHold.m, IndexPlot: a.indexPlot,

@@ -7,13 +7,13 @@
 //
 // # Use
 //
-// Build a wavemaker for a model from a Config and attach it:
+// Build a [Maker] for a model from a [Config] with [New] and attach it:
 //
 //	w, err := wavemaker.New(cfg, model) // checks cfg against the model's grid
 //	if err != nil { … }                 // a *qg.FieldError naming e.g. "wavemaker.band.min_wavelength"
 //	w.Attach(model)                     // as a qg.Source (noise) or a qg.Forcing (wave train)
 //
-// NewNoise and NewTrain return the concrete types. The model books the
+// [NewNoise] and [NewTrain] return the concrete types, [Noise] and [Train]. The model books the
 // noise's injection and the train's work in Ledger[qg.TermInjection].
 //
 // # The noise

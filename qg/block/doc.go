@@ -1,6 +1,7 @@
 // Package block builds the prescribed blocks of eddyblock: gridded
-// streamfunctions ψ_B for the two layers of a qg.Grid, ready for
-// qg.Model.SetBlock, and the configuration that names them.
+// streamfunctions ψ_B for the two layers of a [qg.Grid], ready for
+// [qg.Model.SetBlock], and the [Config] that names them: a Gaussian [Dipole]
+// or a β-plane [Modon] (solved by [SolveModon]), or [None].
 //
 // # Coordinates and signs
 //

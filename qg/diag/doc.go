@@ -7,7 +7,8 @@
 //
 // # Use
 //
-// An Accumulator reads a running qg.Model without copying it:
+// An [Accumulator], made by [New] with [Options], reads a running
+// [qg.Model] without copying it:
 //
 //	acc, err := diag.New(m, diag.Options{Spinup: 50 * 86400})
 //	for range steps {
@@ -19,6 +20,12 @@
 //	ts := acc.Series()  // energies, budget rates, CFL and block index per sample
 //	sp := acc.Spectra() // time-mean isotropic eddy energy spectra
 //	acc.EddyForcing(conv, dz) // cheap: just C_n and f0ψ_t/g, for a live display
+//
+// [Summary] holds the one-number answers ([Projection]s on the block, the
+// [Energetics], the block index [IndexStats]); [Fields] the gridded ones,
+// each a [Field] with its units; [Series] the time series; [Spectra] the
+// spectra. [Fit], [Statistics] and [Episodes] do the same analyses on
+// fields and series of the caller's own.
 //
 // Every call to Sample enters the time series; only samples taken at model
 // time ≥ Options.Spinup enter the time means, eddy statistics and the
