@@ -25,8 +25,10 @@ type Experiment struct {
 	// HasBlock reports whether a block is prescribed.
 	HasBlock bool
 
+	// the state at the last progress report
 	lastLedger qg.Ledger
 	lastTime   float64
+	lastEnergy float64
 }
 
 // New validates c and builds the experiment at t = 0, checking the initial
@@ -68,6 +70,8 @@ func New(c Config) (e *Experiment, err error) {
 	mk.Attach(m)
 	e.Maker = mk
 	e.Diag, err = diag.New(m, diag.Options{Spinup: c.Run.SpinUpDays * 86400, Norm: c.Diag.Norm, Transient: c.Diag.Transient})
+	ke, ape := m.Energy()
+	e.lastEnergy = ke + ape
 	if err != nil {
 		return nil, err
 	}
@@ -109,34 +113,52 @@ func (p Progress) String() string {
 // StepsPerDay returns the number of steps in a day of model time, rounded.
 func (e *Experiment) StepsPerDay() float64 { return 86400 / e.Config.Model.Dt }
 
+// TotalSteps returns the number of steps of the whole run,
+// Config.Run.Days rounded to whole steps.
+func (e *Experiment) TotalSteps() int {
+	return int(math.Round(e.Config.Run.Days * 86400 / e.Config.Model.Dt))
+}
+
+// Done reports whether the run has taken all its steps.
+func (e *Experiment) Done() bool { return e.Model.Steps() >= e.TotalSteps() }
+
+// Advance takes one time step and samples the diagnostics when
+// Config.Run.SampleSteps says so. When a progress report is due (every
+// Config.Run.ReportDays, and at the last step) it returns the Progress
+// since the previous report and true. A failed step returns the model's
+// *qg.StepError and leaves the experiment as it was before the step.
+func (e *Experiment) Advance() (Progress, bool, error) {
+	c := e.Config
+	if err := e.Model.Step(); err != nil {
+		return Progress{}, false, err
+	}
+	n := e.Model.Steps()
+	if n%c.Run.SampleSteps == 0 {
+		if err := e.Diag.Sample(); err != nil {
+			return Progress{}, false, err
+		}
+	}
+	every := max(1, int(math.Round(c.Run.ReportDays*86400/c.Model.Dt)))
+	if n%every == 0 || n == e.TotalSteps() {
+		return e.progress(), true, nil
+	}
+	return Progress{}, false, nil
+}
+
 // Run integrates to Config.Run.Days, calling report every ReportDays (if
 // report is not nil). It stops early when ctx is cancelled (returning
 // ctx.Err()) or when the model fails (a *qg.StepError).
 func (e *Experiment) Run(ctx context.Context, report func(Progress)) error {
-	c := e.Config
-	dt := c.Model.Dt
-	total := int(math.Round(c.Run.Days * 86400 / dt))
-	every := max(1, int(math.Round(c.Run.ReportDays*86400/dt)))
-	ke0, ape0 := e.Model.Energy()
-	e0 := ke0 + ape0
-	for e.Model.Steps() < total {
+	for !e.Done() {
 		if err := ctx.Err(); err != nil {
 			return err
 		}
-		if err := e.Model.Step(); err != nil {
+		p, due, err := e.Advance()
+		if err != nil {
 			return err
 		}
-		if e.Model.Steps()%c.Run.SampleSteps == 0 {
-			if err := e.Diag.Sample(); err != nil {
-				return err
-			}
-		}
-		if e.Model.Steps()%every == 0 || e.Model.Steps() == total {
-			p := e.progress(e0)
-			e0 = p.KE + p.APE
-			if report != nil {
-				report(p)
-			}
+		if due && report != nil {
+			report(p)
 		}
 	}
 	return nil
@@ -146,7 +168,7 @@ func (e *Experiment) Run(ctx context.Context, report func(Progress)) error {
 func (e *Experiment) Summary() diag.Summary { return e.Diag.Summary() }
 
 // progress makes a Progress for the interval since the last one.
-func (e *Experiment) progress(e0 float64) Progress {
+func (e *Experiment) progress() Progress {
 	m := e.Model
 	ke, ape := m.Energy()
 	l := m.Ledger()
@@ -157,8 +179,8 @@ func (e *Experiment) progress(e0 float64) Progress {
 		p.Rates[i] = (l[i] - e.lastLedger[i]) / span
 		sum += p.Rates[i]
 	}
-	p.Residual = (ke+ape-e0)/span - sum
-	e.lastLedger, e.lastTime = l, m.Time()
+	p.Residual = (ke+ape-e.lastEnergy)/span - sum
+	e.lastLedger, e.lastTime, e.lastEnergy = l, m.Time(), ke+ape
 	return p
 }
 
@@ -237,5 +259,7 @@ func (e *Experiment) Restore(c *qg.Checkpoint) error {
 		return err
 	}
 	e.lastTime, e.lastLedger = c.Time, e.Model.Ledger()
+	ke, ape := e.Model.Energy()
+	e.lastEnergy = ke + ape
 	return nil
 }
