@@ -2,6 +2,7 @@ package main
 
 import (
 	"errors"
+	"image/color"
 	"math"
 	"os"
 	"regexp"
@@ -348,20 +349,23 @@ func TestMeanFieldAndAnswers(t *testing.T) {
 	}
 }
 
-// The frame path — samples, field refreshes, painting — allocates nothing
-// of its own once warm: a frame of one step allocates no more than the
-// model's step itself, apart from the diagnostics' growing time series.
+// The frame path — samples, field refreshes, painting the fields —
+// allocates nothing of its own once warm: a frame of one step allocates no
+// more than the model's step itself, apart from the diagnostics' growing
+// time series.
 func TestFrameAllocations(t *testing.T) {
 	a, c := newTestApp(t, "wave-train-strained-by-block", 64)
 	runDays(t, a, c, 6)
 	a.set.StepsPerFrame = 1
-	pix := make([]byte, 4*400*120)
+	fw, fh := a.FieldSize()
+	pix := make([]byte, 4*fw*fh)
 	var pt painter
-	a.Paint(&pt, pix, 400, 120)
+	a.PaintField(&pt, 0, pix)
 	now := c.t
 	frame := testing.AllocsPerRun(24, func() {
 		a.Frame(now) // the same instant: no Summary is due
-		a.Paint(&pt, pix, 400, 120)
+		a.PaintField(&pt, 0, pix)
+		a.PaintField(&pt, 1, pix)
 	})
 	step := testing.AllocsPerRun(24, func() {
 		if err := a.exp.Model.Step(); err != nil {
@@ -451,46 +455,99 @@ func TestLayout(t *testing.T) {
 	}
 }
 
-// The picture: the colour bar runs through the signed scale with its
-// neutral centre in the middle; the field panels hold many colours and the
-// block's dark outline.
+// The pictures: each field image shows its field on the signed scale
+// (many colours, its largest value in the scale's colour for it, within
+// the range shown); the overlay
+// is transparent over most of the fields, with the block's dark outline and
+// the sponge's veil, and its colour bars run through the signed scale.
 func TestPaint(t *testing.T) {
 	a, c := newTestApp(t, "wave-train-strained-by-block", 64)
 	runDays(t, a, c, 7)
 	a.Frame(c.t.Add(2 * time.Second))
+	fw, fh := a.FieldSize()
+	if fw != fieldScale*64 || fh != fieldScale*32 {
+		t.Fatalf("field size %d×%d", fw, fh)
+	}
+	s := palette.Signed()
+	var pt painter
+	for k := range 2 {
+		pix := make([]byte, 4*fw*fh)
+		a.PaintField(&pt, k, pix)
+		colours := map[[3]byte]bool{}
+		for i := 0; i < len(pix); i += 4 {
+			colours[[3]byte{pix[i], pix[i+1], pix[i+2]}] = true
+		}
+		if len(colours) < 100 {
+			t.Errorf("field %d: %d colours", k, len(colours))
+		}
+	}
+	// a smooth field of known values: each pixel shows the scale's colour
+	// of the bilinear interpolation (done here, independently) of the
+	// periodic grid at the pixel's centre, north up
+	nx, ny := 64, 32
+	for j := range ny {
+		for i := range nx {
+			a.live[j*nx+i] = math.Sin(2*math.Pi*float64(i)/float64(nx)) * math.Cos(2*math.Pi*float64(j)/float64(ny))
+		}
+	}
+	a.liveHold.m = 1
+	fpix := make([]byte, 4*fw*fh)
+	a.PaintField(&pt, 0, fpix)
+	val := func(i, j int) float64 { return a.live[((j+ny)%ny)*nx+(i+nx)%nx] }
+	for _, p := range [][2]int{{0, 0}, {5, 7}, {31, 40}, {127, 63}, {64, 1}} {
+		px, py := p[0], p[1]
+		x := -0.5 + (float64(px)+0.5)/float64(fw)*float64(nx)
+		y := -0.5 + (float64(fh-py)-0.5)/float64(fh)*float64(ny)
+		i0, j0 := int(math.Floor(x)), int(math.Floor(y))
+		fx, fy := x-float64(i0), y-float64(j0)
+		v := (1-fx)*(1-fy)*val(i0, j0) + fx*(1-fy)*val(i0+1, j0) + (1-fx)*fy*val(i0, j0+1) + fx*fy*val(i0+1, j0+1)
+		want := s.Value(v, palette.Range{Lo: -1, Hi: 1})
+		o := 4 * (py*fw + px)
+		if d := colourDistance([3]byte{fpix[o], fpix[o+1], fpix[o+2]}, want); d > 4 {
+			t.Errorf("smooth field, pixel (%d, %d): %v, want the scale's %v for %g", px, py, fpix[o:o+3], want, v)
+		}
+	}
 	const w, h = 1000, 264
 	pix := make([]byte, 4*w*h)
-	var pt painter
-	a.Paint(&pt, pix, w, h)
-	l := makeLayout(w, h, 2)
-	at := func(x, y int) [3]byte { o := 4 * (y*w + x); return [3]byte{pix[o], pix[o+1], pix[o+2]} }
-	s := palette.Signed()
+	a.PaintOverlay(pix, w, h)
+	l := a.Layout(w, h)
+	at := func(x, y int) [4]byte { o := 4 * (y*w + x); return [4]byte{pix[o], pix[o+1], pix[o+2], pix[o+3]} }
 	bar := l.Bar[0]
 	y := (bar.Min.Y + bar.Max.Y) / 2
 	for _, f := range []float64{0.1, 0.3, 0.7, 0.9} {
 		x := bar.Min.X + int(f*float64(bar.Dx()))
 		want := s.At((float64(x-bar.Min.X) + 0.5) / float64(bar.Dx()))
-		if got := at(x, y); got != [3]byte{want.R, want.G, want.B} {
+		if got := at(x, y); got != [4]byte{want.R, want.G, want.B, 255} {
 			t.Errorf("colour bar at %.0f %%: %v, want the scale's %v", 100*f, got, want)
 		}
 	}
 	for k := range 2 {
-		colours := map[[3]byte]bool{}
-		dark := 0
+		clearPx, dark, veiled := 0, 0, 0
 		p := l.Panel[k]
 		for y := p.Min.Y + 3; y < p.Max.Y-3; y++ {
 			for x := p.Min.X + 3; x < p.Max.X-3; x++ {
 				c := at(x, y)
-				colours[c] = true
-				if int(c[0])+int(c[1])+int(c[2]) < 200 {
+				switch {
+				case c[3] == 0:
+					clearPx++
+				case c[3] == 255 && int(c[0])+int(c[1])+int(c[2]) < 200:
 					dark++
+				case c[0] == c[3] && c[1] == c[3] && c[2] == c[3]:
+					veiled++ // premultiplied white
 				}
 			}
 		}
-		if len(colours) < 100 || dark < 50 {
-			t.Errorf("panel %d: %d colours, %d dark outline pixels", k, len(colours), dark)
+		n := (p.Dx() - 6) * (p.Dy() - 6)
+		if clearPx < n/2 || dark < 50 || veiled < n/10 {
+			t.Errorf("overlay over panel %d: %d of %d pixels clear, %d dark outline pixels, %d veiled", k, clearPx, n, dark, veiled)
 		}
 	}
+}
+
+// colourDistance is the Euclidean distance of two sRGB colours, 0–441.
+func colourDistance(a [3]byte, b color.RGBA) float64 {
+	dr, dg, db := float64(a[0])-float64(b.R), float64(a[1])-float64(b.G), float64(a[2])-float64(b.B)
+	return math.Sqrt(dr*dr + dg*dg + db*db)
 }
 
 // The page's controls and readouts are the program's: every data-control

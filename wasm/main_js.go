@@ -5,6 +5,7 @@ package main
 import (
 	"encoding/json"
 	"fmt"
+	"image/color"
 	"math"
 	"sync"
 	"syscall/js"
@@ -22,14 +23,20 @@ const maxPixels = 1600 * 600
 // game is the ebiten game around an App. The page's calls (set, command,
 // status) and ebiten's Update and Draw take turns through mu.
 type game struct {
-	mu      sync.Mutex
-	app     *App
-	pt      painter
-	img     *ebiten.Image
-	pix     []byte
-	w, h    int
-	painted int
-	first   float64 // the page clock (performance.now, ms) at the first frame
+	mu  sync.Mutex
+	app *App
+	pt  painter
+
+	field    [2]*ebiten.Image // the live field and the running mean, FieldSize
+	fieldPix []byte
+	fw, fh   int
+	overlay  *ebiten.Image // the picture's size
+	ovPix    []byte
+	w, h     int
+	drawn    [3]int // the versions on the images: live, mean, overlay
+	op       ebiten.DrawImageOptions
+	ovPanel  [2]*ebiten.Image // the overlay's part over each panel
+	first    float64          // the page clock (performance.now, ms) at the first frame
 }
 
 // Update does one frame's work: keyboard shortcuts, then the App's frame.
@@ -54,35 +61,86 @@ func (g *game) Update() error {
 	return nil
 }
 
-// Draw repaints the pixel buffer when the picture changed and shows it.
+// Draw repaints the images that changed (the fields at their small size,
+// the overlay only when the settings or the screen changed), and composes
+// them on the screen: the fields scaled to their panels with linear
+// filtering, the overlay over them.
 func (g *game) Draw(screen *ebiten.Image) {
 	b := screen.Bounds()
 	w, h := b.Dx(), b.Dy()
 	if w <= 0 || h <= 0 {
 		return
 	}
-	if g.img == nil || w != g.w || h != g.h {
-		if g.img != nil {
-			g.img.Deallocate()
-		}
-		g.img = ebiten.NewImage(w, h)
-		g.pix = make([]byte, 4*w*h)
-		g.w, g.h, g.painted = w, h, -1
-	}
 	g.mu.Lock()
-	changed := g.painted != g.app.version
-	if changed {
-		g.app.Paint(&g.pt, g.pix, w, h)
-		g.painted = g.app.version
+	defer g.mu.Unlock()
+	a := g.app
+	fw, fh := a.FieldSize()
+	if g.field[0] == nil || fw != g.fw || fh != g.fh {
+		for k := range 2 {
+			if g.field[k] != nil {
+				g.field[k].Deallocate()
+			}
+			g.field[k] = ebiten.NewImage(fw, fh)
+		}
+		g.fieldPix = make([]byte, 4*fw*fh)
+		g.fw, g.fh = fw, fh
+		g.drawn = [3]int{-1, -1, -1}
+	}
+	if g.overlay == nil || w != g.w || h != g.h {
+		if g.overlay != nil {
+			g.overlay.Deallocate()
+		}
+		g.overlay = ebiten.NewImage(w, h)
+		g.ovPix = make([]byte, 4*w*h)
+		g.w, g.h = w, h
+		g.drawn = [3]int{-1, -1, -1}
+	}
+	vers := [3]int{a.liveVer, a.meanVer, a.overlayVer}
+	if vers == g.drawn {
+		return // the screen keeps the last picture
+	}
+	full := vers[2] != g.drawn[2]
+	for k := range 2 {
+		if full || vers[k] != g.drawn[k] {
+			a.PaintField(&g.pt, k, g.fieldPix)
+			g.field[k].WritePixels(g.fieldPix)
+		}
+	}
+	l := a.Layout(w, h)
+	if full {
+		a.PaintOverlay(g.ovPix, w, h)
+		g.overlay.WritePixels(g.ovPix)
+		for k := range 2 {
+			g.ovPanel[k] = g.overlay.SubImage(l.Panel[k]).(*ebiten.Image)
+		}
+		screen.Fill(color.White)
 	}
 	if g.first == 0 {
 		g.first = js.Global().Get("performance").Call("now").Float()
 	}
-	g.mu.Unlock()
-	if changed {
-		g.img.WritePixels(g.pix)
+	// the panels whose field changed, each with its part of the overlay;
+	// the rest of the screen keeps what it has
+	for k := range 2 {
+		if !full && vers[k] == g.drawn[k] {
+			continue
+		}
+		r := l.Panel[k]
+		g.op.Filter = ebiten.FilterLinear
+		g.op.GeoM.Reset()
+		g.op.GeoM.Scale(float64(r.Dx())/float64(fw), float64(r.Dy())/float64(fh))
+		g.op.GeoM.Translate(float64(r.Min.X), float64(r.Min.Y))
+		screen.DrawImage(g.field[k], &g.op)
+		if !full {
+			g.op.Filter = ebiten.FilterNearest
+			g.op.GeoM.Reset()
+			g.op.GeoM.Translate(float64(r.Min.X), float64(r.Min.Y))
+			screen.DrawImage(g.ovPanel[k], &g.op)
+		}
 	}
-	screen.DrawImage(g.img, nil)
+	if full {
+		screen.DrawImage(g.overlay, nil)
+	}
+	g.drawn = vers
 }
 
 // LayoutF draws in device pixels (sharp on high-density screens), at most

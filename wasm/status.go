@@ -34,7 +34,7 @@ type Status struct {
 	// the browser glue, 0 natively.
 	FirstFrameAt  float64 `json:"firstFrameAt"`
 	WorkMs        float64 `json:"workMs"`      // wall time of a frame's model work (steps, samples, fields), ms, moving average
-	PaintMs       float64 `json:"paintMs"`     // wall time of painting the picture, ms, moving average
+	PaintMs       float64 `json:"paintMs"`     // wall time of painting one field image, ms, moving average
 	Samples       int     `json:"samples"`     // samples in the running mean
 	MeanFromDay   float64 `json:"meanFromDay"` // the running mean's first sample, days (0 without samples)
 	Scenario      string  `json:"scenario"`

@@ -75,6 +75,7 @@ type browserStatus struct {
 // runs on; a forced blow-up stops the model with its message.
 func TestBrowserDemo(t *testing.T) {
 	chrome := testenv.Tool(t, "chromium", "Debian package chromium")
+	testenv.Long(t) // half a minute to a few minutes of wall time
 	base := startServe(t)
 	art := artifactDir(t)
 	t.Logf("screenshots in %s", art)
