@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"strings"
 
@@ -54,6 +55,18 @@ type RunConfig struct {
 	ReportDays float64 `toml:"report_days" json:"report_days"`
 	// SampleSteps is the number of time steps between diagnostic samples.
 	SampleSteps int `toml:"sample_steps" json:"sample_steps"`
+	// SnapshotDays is the interval between the snapshots of ψ and q a run
+	// writes to its output directory, days (rounded to whole steps); 0
+	// writes none.
+	SnapshotDays float64 `toml:"snapshot_days" json:"snapshot_days"`
+}
+
+// SnapshotSteps returns the number of steps between snapshots, 0 for none.
+func (r RunConfig) SnapshotSteps(dt float64) int {
+	if r.SnapshotDays <= 0 {
+		return 0
+	}
+	return max(1, int(math.Round(r.SnapshotDays*86400/dt)))
 }
 
 // Validate checks every part of the configuration and returns the first
@@ -73,6 +86,7 @@ func (c *Config) Validate() error {
 		check.Positive("run.days", r.Days),
 		check.NonNegative("run.spin_up_days", r.SpinUpDays),
 		check.Positive("run.report_days", r.ReportDays),
+		check.NonNegative("run.snapshot_days", r.SnapshotDays),
 	} {
 		if err != nil {
 			return err

@@ -85,7 +85,7 @@ func StormTrack() Config {
 			InjectionRate: 1e-5,
 			Seed:          1,
 		},
-		Run:  RunConfig{Days: 120, SpinUpDays: 30, ReportDays: 10, SampleSteps: 6},
+		Run:  RunConfig{Days: 120, SpinUpDays: 30, ReportDays: 10, SampleSteps: 6, SnapshotDays: 2},
 		Diag: DiagConfig{Norm: diag.LayerNorm},
 	}
 }

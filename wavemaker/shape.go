@@ -8,6 +8,11 @@ import (
 
 // maskField returns the gridded mask m(x, y) (Ny rows of Nx points), the sum
 // of the mask's Gaussian patches, or nil for NoMask (m = 1).
+// Field returns the mask m(x, y) on grid g (Ny rows of Nx points, the sum
+// of its Gaussian patches, 1 at a patch's centre), or nil without a mask:
+// the region where the wave source acts, for maps and overlays.
+func (mk MaskConfig) Field(g *qg.Grid) []float64 { return maskField(g, mk) }
+
 func maskField(g *qg.Grid, mk MaskConfig) []float64 {
 	ps, _ := mk.patches()
 	if len(ps) == 0 {

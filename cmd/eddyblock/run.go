@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"errors"
 	"flag"
 	"fmt"
@@ -11,7 +12,7 @@ import (
 	"time"
 
 	"github.com/eddyblock/eddyblock/experiment"
-	"github.com/eddyblock/eddyblock/qg"
+	"github.com/eddyblock/eddyblock/output"
 )
 
 // runFlags are the options of the run command.
@@ -19,7 +20,7 @@ type runFlags struct {
 	config, out, ckpt, restart string
 	days, spinup               float64
 	workers                    int
-	quiet                      bool
+	quiet, plot                bool
 	set                        map[string]bool // the flags given on the command line
 }
 
@@ -32,7 +33,8 @@ func parseRunFlags(args []string, stderr io.Writer) (*runFlags, error) {
 	fs.Float64Var(&f.spinup, "spinup", 0, "days before the diagnostics start averaging (overrides run.spin_up_days)")
 	fs.IntVar(&f.workers, "workers", 0, "goroutines inside a step (overrides model.workers)")
 	fs.BoolVar(&f.quiet, "quiet", false, "print only the final summary")
-	fs.StringVar(&f.out, "out", "", "directory for the outputs, replaced as a whole when the run ends")
+	fs.StringVar(&f.out, "out", "", "directory for the outputs (JSON, TOML, NetCDF), replaced as a whole when the run ends")
+	fs.BoolVar(&f.plot, "plot", false, "with -out, also write the figures (PNG) into DIR/figures")
 	fs.StringVar(&f.ckpt, "checkpoint", "", "restart file, replaced atomically at every progress report and when the run is stopped")
 	fs.StringVar(&f.restart, "restart", "", "continue from this restart file (written by -checkpoint with the same configuration)")
 	if err := fs.Parse(args); err != nil {
@@ -56,6 +58,9 @@ func parseRunFlags(args []string, stderr io.Writer) (*runFlags, error) {
 		if v := fs.Lookup(name).Value.String(); f.set[name] && strings.TrimSpace(v) == "" {
 			return nil, fmt.Errorf("-%s: empty path", name)
 		}
+	}
+	if f.plot && f.out == "" {
+		return nil, errors.New("-plot: the figures go into the output directory: give -out DIR too")
 	}
 	return f, nil
 }
@@ -94,86 +99,41 @@ func cmdRun(args []string, stdout, stderr io.Writer) error {
 	if err := f.configure(&c); err != nil {
 		return err
 	}
+	prog := newProgress(stdout, f.quiet)
 	// Everything that can be checked before the first step is checked now:
 	// the configuration, the initial state, the restart file, and where the
 	// outputs and the checkpoint will go.
-	e, err := experiment.New(c)
+	r, err := output.Prepare(c, output.Options{
+		Dir: f.out, Checkpoint: f.ckpt, Restart: f.restart, Plot: f.plot,
+		Report: prog.report, OnStep: prog.step,
+	})
 	if err != nil {
-		return err
+		return flagError(err)
 	}
-	defer e.Close()
-	var ck *qg.Checkpoint
-	if f.restart != "" {
-		if ck, err = qg.LoadCheckpoint(f.restart); err != nil {
-			return err
-		}
-		if err := e.Restore(ck); err != nil {
-			return fmt.Errorf("restart from %s: %w", f.restart, err)
-		}
-		if end := c.Run.Days * 86400; ck.Time >= end {
-			return fmt.Errorf("restart from %s: the checkpoint is at day %g, at or after the run's end (day %g); give a longer -days", f.restart, ck.Time/86400, c.Run.Days)
-		}
-	}
-	if f.ckpt != "" {
-		if err := qg.CheckWritable(f.ckpt); err != nil {
-			return fmt.Errorf("-checkpoint: %w", err)
-		}
-	}
-	var out *outDir
-	if f.out != "" {
-		if out, err = stageOutDir(f.out); err != nil {
-			return fmt.Errorf("-out: %w", err)
-		}
-		defer out.discard()
-	}
-
+	defer r.Close()
+	e := r.Experiment()
 	fmt.Fprintf(stdout, "experiment %q: %d×%d grid, %.0f km × %.0f km, dt = %g s, %g days (spin-up %g), %d worker(s)\n",
 		c.Name, c.Model.Nx, c.Model.Ny, c.Model.Lx/1e3, c.Model.Ly/1e3, c.Model.Dt, c.Run.Days, c.Run.SpinUpDays, c.Model.Workers)
-	if ck != nil {
+	if ck := r.Restarted(); ck != nil {
 		fmt.Fprintf(stdout, "restarted from %s at day %.2f (step %d)\n", f.restart, ck.Time/86400, ck.Steps)
 	}
 	ctx, sig, stopSignals := signalContext()
 	defer stopSignals()
-	saveCheckpoint := func() error {
-		ck, err := e.Checkpoint()
-		if err == nil {
-			err = qg.SaveCheckpoint(f.ckpt, ck)
-		}
-		return err
-	}
-	if !f.quiet {
-		fmt.Fprintln(stdout, experiment.ProgressUnits)
-	}
 	steps0, t0 := e.Model.Steps(), time.Now()
-	var saveErr error
-	err = e.Run(ctx, func(p experiment.Progress) {
-		if !f.quiet {
-			fmt.Fprintln(stdout, p)
-		}
-		if f.ckpt != "" && saveErr == nil {
-			saveErr = saveCheckpoint()
-		}
-	})
+	prog.begin(e)
+	err = r.Execute(ctx)
+	prog.end()
 	wall := time.Since(t0)
 	steps := e.Model.Steps() - steps0
-	if err == nil {
-		err = saveErr
-	}
-	if s := sig(); s != nil {
-		return stopMessage(stdout, s, e, f, saveCheckpoint)
+	if s := sig(); s != nil && errors.Is(err, context.Canceled) {
+		return stopMessage(stdout, s, e, f, err)
 	}
 	if err != nil {
 		return err
 	}
 	fmt.Fprintln(stdout)
 	fmt.Fprintln(stdout, e.Summary())
-	if out != nil {
-		if err := writeOutputs(out.stage, e); err != nil {
-			return fmt.Errorf("-out %s: %w", f.out, err)
-		}
-		if err := out.commit(); err != nil {
-			return fmt.Errorf("-out: %w", err)
-		}
+	if f.out != "" {
 		fmt.Fprintf(stdout, "wrote %s\n", f.out)
 	}
 	perStep := 0.0
@@ -184,17 +144,29 @@ func cmdRun(args []string, stdout, stderr io.Writer) error {
 	return nil
 }
 
-// stopMessage reports a run stopped by a signal: it writes the checkpoint
-// if one was asked for, says at which day the run stopped and how to
-// resume it, and returns the error that sets the exit status.
-func stopMessage(stdout io.Writer, s *stopped, e *experiment.Experiment, f *runFlags, save func() error) error {
+// flagError names the flag behind an error of output.Prepare.
+func flagError(err error) error {
+	msg := err.Error()
+	switch {
+	case strings.HasPrefix(msg, "output directory"):
+		return fmt.Errorf("-out: %w", err)
+	case strings.HasPrefix(msg, "checkpoint:"):
+		return fmt.Errorf("-checkpoint: %w", err)
+	}
+	return err
+}
+
+// stopMessage reports a run stopped by a signal (Execute has written the
+// checkpoint if one was asked for): the day it stopped at and how to resume
+// it; it returns the error that sets the exit status.
+func stopMessage(stdout io.Writer, s *stopped, e *experiment.Experiment, f *runFlags, err error) error {
 	day := e.Model.Time() / 86400
-	fmt.Fprintf(stdout, "\nstopped by %s at day %.3f (step %d) of %g; no outputs were written\n", s.name, day, e.Model.Steps(), e.Config.Run.Days)
+	fmt.Fprintf(stdout, "\nstopped by %s at day %.3f (step %d) of %g; the outputs were not written\n", s.name, day, e.Model.Steps(), e.Config.Run.Days)
 	if f.ckpt == "" {
 		fmt.Fprintln(stdout, "no checkpoint was asked for (-checkpoint FILE), so the run cannot be resumed")
 		return s
 	}
-	if err := save(); err != nil {
+	if err != context.Canceled { // Execute joined the checkpoint's error to it
 		return errors.Join(s, fmt.Errorf("the checkpoint could not be written: %w", err))
 	}
 	fmt.Fprintf(stdout, "checkpoint written to %s; resume with:\n  %s\n", f.ckpt, resumeCommand(f))
@@ -221,6 +193,9 @@ func resumeCommand(f *runFlags) string {
 	}
 	if f.out != "" {
 		parts = append(parts, "-out", quote(f.out))
+	}
+	if f.plot {
+		parts = append(parts, "-plot")
 	}
 	parts = append(parts, "-checkpoint", quote(f.ckpt), "-restart", quote(f.ckpt))
 	return strings.Join(parts, " ")

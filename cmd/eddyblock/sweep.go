@@ -11,6 +11,7 @@ import (
 	"sync"
 
 	"github.com/eddyblock/eddyblock/experiment"
+	"github.com/eddyblock/eddyblock/output"
 )
 
 // sweepMember is one run of a sweep: the value of the swept key and its
@@ -76,18 +77,23 @@ func cmdSweep(args []string, stdout, stderr io.Writer) error {
 	if *member >= len(members) {
 		return fmt.Errorf("-member = %d, but the sweep has %d members", *member, len(members))
 	}
-	// the members' output directories, checked before any run
-	outs := make([]*outDir, len(members))
+	// every member prepared (configuration, initial state, output
+	// directory) before any runs
+	runs := make([]*output.Run, len(members))
 	for i := range members {
-		if *out == "" || (*member >= 0 && i != *member) {
+		if *member >= 0 && i != *member {
 			continue
 		}
-		o, err := stageOutDir(filepath.Join(*out, fmt.Sprintf("member-%03d", i)))
-		if err != nil {
-			return fmt.Errorf("-out: %w", err)
+		o := output.Options{}
+		if *out != "" {
+			o.Dir = filepath.Join(*out, fmt.Sprintf("member-%03d", i))
 		}
-		defer o.discard()
-		outs[i] = o
+		r, err := output.Prepare(members[i].cfg, o)
+		if err != nil {
+			return fmt.Errorf("member %d (%s = %s): %w", i, *key, members[i].value, err)
+		}
+		defer r.Close()
+		runs[i] = r
 	}
 	ctx, sig, stopSignals := signalContext()
 	defer stopSignals()
@@ -95,8 +101,8 @@ func cmdSweep(args []string, stdout, stderr io.Writer) error {
 	errs := make([]error, len(members))
 	sem := make(chan struct{}, *jobs)
 	var wg sync.WaitGroup
-	for i := range members {
-		if *member >= 0 && i != *member {
+	for i, r := range runs {
+		if r == nil {
 			continue
 		}
 		wg.Add(1)
@@ -104,18 +110,7 @@ func cmdSweep(args []string, stdout, stderr io.Writer) error {
 			defer wg.Done()
 			sem <- struct{}{}
 			defer func() { <-sem }()
-			e, err := experiment.New(members[i].cfg)
-			if err == nil {
-				defer e.Close()
-				err = e.Run(ctx, nil)
-			}
-			if err == nil && outs[i] != nil {
-				err = writeOutputs(outs[i].stage, e)
-				if err == nil {
-					err = outs[i].commit()
-				}
-			}
-			results[i], errs[i] = e, err
+			results[i], errs[i] = r.Experiment(), r.Execute(ctx)
 		}()
 	}
 	wg.Wait()

@@ -3,6 +3,7 @@ package netcdf
 import (
 	"bufio"
 	"bytes"
+	"errors"
 	"fmt"
 	"math"
 	"os"
@@ -37,6 +38,9 @@ func (m *memFile) Sync() error {
 	return nil
 }
 func (m *memFile) Close() error { return nil }
+
+// Truncate is not used by the writes these tests log.
+func (m *memFile) Truncate(int64) error { return errors.New("memFile: Truncate not supported") }
 
 // replay returns the file after the first k writes of log and the first
 // part bytes of write k.

@@ -16,6 +16,7 @@ type file interface {
 	io.WriterAt
 	Sync() error
 	Close() error
+	Truncate(size int64) error
 }
 
 // A Writer writes one NetCDF file. Fixed-size variables are written
@@ -317,6 +318,47 @@ func (w *Writer) CommitRecord() error {
 	w.numrecs++
 	clear(w.staged)
 	w.pending = false
+	return nil
+}
+
+// TruncateRecords keeps the first n committed records and drops the
+// others: the header's record count becomes n and the file ends after
+// record n−1, as if the later records had never been written. It is for a
+// run that restarts from a state older than the last record. There must be
+// no pending record.
+func (w *Writer) TruncateRecords(n int) error {
+	if err := w.usable(); err != nil {
+		return err
+	}
+	if w.lay.recDim < 0 {
+		return w.fail(errors.New("TruncateRecords: the file has no record dimension"))
+	}
+	if w.pending {
+		return w.fail(errors.New("TruncateRecords: a record is pending"))
+	}
+	if n < 0 || int64(n) > w.numrecs {
+		return w.fail(fmt.Errorf("TruncateRecords(%d): the file holds %d records", n, w.numrecs))
+	}
+	var b [4]byte
+	be.PutUint32(b[:], uint32(n))
+	if err := w.writeAt(b[:], 4); err != nil {
+		return err
+	}
+	begin := int64(-1)
+	for i := range w.lay.vars {
+		if v := &w.lay.vars[i]; v.rec && (begin < 0 || v.begin < begin) {
+			begin = v.begin
+		}
+	}
+	if begin >= 0 {
+		if err := w.f.Truncate(begin + int64(n)*w.lay.recsize); err != nil {
+			return w.fail(err)
+		}
+	}
+	w.numrecs = int64(n)
+	if w.durable {
+		return w.sync()
+	}
 	return nil
 }
 
