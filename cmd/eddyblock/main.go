@@ -1,14 +1,7 @@
 // Command eddyblock runs idealised eddy–block experiments with the two-layer
 // QG model of package qg.
 //
-// Usage:
-//
-//	eddyblock run [-config file.toml] [-days N] [-workers N] [-quiet] [-out dir]
-//	              [-checkpoint file] [-restart file]
-//	eddyblock sweep -key K -values v1,v2,... [-config file.toml] [-jobs N] [-member i] [-out dir]
-//	                          run once per value of a configuration key, in parallel
-//	eddyblock config [name]   print a built-in experiment as TOML (the default, or storm-track-ending-at-block)
-//	eddyblock check file.toml validate a configuration
+// Usage: see the usage text below (eddyblock help).
 //
 // A configuration file needs only the keys it changes; everything else keeps
 // the built-in experiment's values.
@@ -37,12 +30,15 @@ func main() {
 }
 
 const usage = `usage:
-  eddyblock run [-config file.toml] [-days N] [-workers N] [-quiet] [-out dir]
-                [-checkpoint file] [-restart file]
-  eddyblock sweep -key K -values v1,v2,... [-config file.toml] [-jobs N] [-member i] [-out dir]
-  eddyblock config [name]       print a built-in experiment as TOML: the default
-                                (wave-train-strained-by-block) or storm-track-ending-at-block
-  eddyblock check file.toml     validate a configuration file`
+  eddyblock run [-config file.toml] [-days N] [-spinup N] [-workers N] [-quiet]
+                [-out DIR [-plot]] [-checkpoint file] [-restart file]
+                                run an experiment (the built-in default without -config)
+  eddyblock sweep ...           run an experiment once per member of a sweep (eddyblock sweep -h)
+  eddyblock plot [-to DIR] RUNDIR
+                                draw the figures of a run from its NetCDF files
+  eddyblock config [name]       print a built-in experiment as TOML: wave-train-strained-by-block
+                                (the default), storm-track-ending-at-block or white-noise-control
+  eddyblock check file.toml     validate a configuration file as a run would, without running it`
 
 func run(args []string, stdout, stderr io.Writer) error {
 	if len(args) == 0 {
@@ -53,6 +49,8 @@ func run(args []string, stdout, stderr io.Writer) error {
 		return cmdRun(args[1:], stdout, stderr)
 	case "sweep":
 		return cmdSweep(args[1:], stdout, stderr)
+	case "plot":
+		return cmdPlot(args[1:], stdout, stderr)
 	case "config":
 		c := experiment.Default()
 		switch len(args) {
