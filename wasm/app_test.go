@@ -430,6 +430,12 @@ func TestSci(t *testing.T) {
 			t.Errorf("sci(%g, %d) = %q, want %q", c.v, c.digits, got, c.want)
 		}
 	}
+	if lo, hi := rangeText(2.5e-10); lo != "−2.5×10⁻¹⁰" || hi != "+2.5×10⁻¹⁰" {
+		t.Errorf("range labels %q, %q", lo, hi)
+	}
+	if lo, _ := rangeText(0); lo != "no data yet" {
+		t.Errorf("empty range labelled %q", lo)
+	}
 }
 
 // The layout keeps the domain's aspect ratio, puts the panels side by side

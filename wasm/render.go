@@ -76,7 +76,7 @@ var (
 	outlineColour = color.RGBA{40, 40, 40, 255}
 	frameColour   = color.RGBA{120, 120, 120, 255}
 	stopColour    = color.RGBA{200, 0, 0, 255}
-	hatchColour   = color.RGBA{70, 70, 70, 70}
+	hatchColour   = color.RGBA{90, 90, 90, 130}
 )
 
 // painter holds what painting reuses from frame to frame.
@@ -149,7 +149,7 @@ func (a *App) paintSponge(pix []byte, stride, pw, ph int) {
 		white := uint8(0.4*v*255 + 0.5)
 		for py := range ph {
 			p := pix[py*stride+4*px : py*stride+4*px+4]
-			if v > 0.1 && (px+py)%14 == 0 {
+			if v > 0.1 && (px+py)%10 == 0 {
 				p[0], p[1], p[2], p[3] = hatchColour.R, hatchColour.G, hatchColour.B, hatchColour.A
 				continue
 			}

@@ -120,9 +120,6 @@ func (a *App) Status() Status {
 	if st.CFL > cflWarn*st.MaxCFL && a.failure == nil {
 		st.Warnings = append(st.Warnings, fmt.Sprintf("The CFL number is %.2f, close to its limit %.2g: the model will stop if the flow grows further.", st.CFL, st.MaxCFL))
 	}
-	if st.Samples < 2 {
-		st.Warnings = append(st.Warnings, "The running mean has no eddy statistics yet.")
-	}
 
 	t := st.Text
 	t["day"] = fmt.Sprintf("%.2f", st.Day)
@@ -163,12 +160,21 @@ func (a *App) Status() Status {
 	lt, lu := liveLabel(a.set.Live, a.exp.Model.BlockMode() == qg.Fixed)
 	t["live_title"] = lt + ", " + layer
 	t["live_units"] = lu
-	t["live_lo"], t["live_hi"] = "−"+sci(st.LiveRange, 2), "+"+sci(st.LiveRange, 2)
+	t["live_lo"], t["live_hi"] = rangeText(st.LiveRange)
 	mt, mu := meanLabel(a.set.Mean)
 	t["mean_title"] = mt + ", " + layer + ", running mean"
 	t["mean_units"] = mu
-	t["mean_lo"], t["mean_hi"] = "−"+sci(st.MeanRange, 2), "+"+sci(st.MeanRange, 2)
+	t["mean_lo"], t["mean_hi"] = rangeText(st.MeanRange)
 	return st
+}
+
+// rangeText returns the labels of the ends of a colour bar over [−m, m]:
+// "no data yet" for an empty field.
+func rangeText(m float64) (lo, hi string) {
+	if !(m > 0) {
+		return "no data yet", ""
+	}
+	return "−" + sci(m, 2), "+" + sci(m, 2)
 }
 
 // liveLabel returns the name and units of a live field.

@@ -44,7 +44,7 @@ func startServe(t *testing.T) string {
 		sc := bufio.NewScanner(pr)
 		for sc.Scan() {
 			if i := strings.Index(sc.Text(), "http://"); i >= 0 {
-				urls <- strings.Fields(sc.Text()[i:])[0]
+				urls <- strings.TrimSuffix(strings.Fields(sc.Text()[i:])[0], "/")
 			}
 		}
 		close(urls)
