@@ -83,6 +83,7 @@ func TestExamplesRun(t *testing.T) {
 		want []string
 	}{
 		{"driver", []string{"day 10: upper-layer height peaks at +"}},
+		{"heating", []string{"at the heating patch:", "response"}},
 		{"spinup", []string{"day  10", "day 100"}},
 		{"tracksweep", []string{"track offset", "3000 km"}},
 	} {
