@@ -36,6 +36,8 @@ const usage = `usage:
   eddyblock sweep ...           run an experiment once per member of a sweep (eddyblock sweep -h)
   eddyblock plot [-to DIR] RUNDIR
                                 draw the figures of a run from its NetCDF files
+  eddyblock serve [-port N]     build the browser demo and serve it on 127.0.0.1 (eddyblock serve -h)
+  eddyblock site DIR            export the browser demo as a static folder anyone can host
   eddyblock config [name]       print a built-in experiment as TOML: wave-train-strained-by-block
                                 (the default), storm-track-ending-at-block or white-noise-control
   eddyblock check file.toml     validate a configuration file as a run would, without running it`
@@ -51,6 +53,10 @@ func run(args []string, stdout, stderr io.Writer) error {
 		return cmdSweep(args[1:], stdout, stderr)
 	case "plot":
 		return cmdPlot(args[1:], stdout, stderr)
+	case "serve":
+		return cmdServe(args[1:], stdout, stderr)
+	case "site":
+		return cmdSite(args[1:], stdout, stderr)
 	case "config":
 		c := experiment.Default()
 		switch len(args) {
