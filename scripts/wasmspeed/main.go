@@ -155,7 +155,10 @@ func run(site string, seconds float64, shot string, sweep bool, rounds int) erro
 	fmt.Println("| grid | scheme, dt | steps/frame | frames/s | steps/s | model days/s | model work/frame | painting |")
 	fmt.Println("|---|---|---|---|---|---|---|---|")
 	var all []setting
-	for range max(1, rounds) {
+	if seconds <= 0 {
+		rounds = -1 // -seconds 0: no measurements (for a screenshot alone)
+	}
+	for range rounds {
 		all = append(all, settings...)
 	}
 	for _, s := range all {
@@ -220,8 +223,9 @@ func run(site string, seconds float64, shot string, sweep bool, rounds int) erro
 }
 
 // screenshot runs the default page for 30 s of wall time, so that the
-// running mean has built up, and saves the page's top as a PNG, scaled
-// down until it is under 150 kB.
+// running mean has built up, and saves the visible part of the page's main
+// column (the pictures, the readouts, the answers) as a PNG, scaled down
+// until it is under 150 kB.
 func screenshot(ctx context.Context, base string, read func() (status, error), path string) error {
 	if err := chromedp.Do(ctx, chromedp.Navigate(base+"index.html")); err != nil {
 		return err
@@ -234,9 +238,21 @@ func screenshot(ctx context.Context, base string, read func() (status, error), p
 	if err != nil {
 		return err
 	}
-	img, err := png.Decode(bytes.NewReader(b))
+	full, err := png.Decode(bytes.NewReader(b))
 	if err != nil {
 		return err
+	}
+	// the page's main column (the pictures, the readouts and the answers),
+	// without the controls
+	box, err := chromedp.Run(ctx, chromedp.Evaluate[[]float64](`(() => { const r = document.querySelector("main").getBoundingClientRect(); return [r.right + 8, r.bottom + 8]; })()`))
+	if err != nil || len(box) != 2 {
+		return fmt.Errorf("screenshot: the page's main column: %v", err)
+	}
+	img := full
+	if sub, ok := full.(interface {
+		SubImage(image.Rectangle) image.Image
+	}); ok {
+		img = sub.SubImage(image.Rect(0, 0, int(box[0]), int(box[1])).Intersect(full.Bounds()))
 	}
 	for scale := 1.0; scale > 0.3; scale -= 0.1 {
 		r := img.Bounds()
