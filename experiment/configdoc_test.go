@@ -557,6 +557,68 @@ func checkComments(t *testing.T, name, doc string) {
 	}
 }
 
+// TestTrajectorySettingsIgnoreUnused checks that the restart fingerprint
+// holds the used keys only: every variant, with each key it does not use
+// set to NaN or a value no option accepts, has the same fingerprint as
+// itself and as what its Documented TOML loads to (so that a run restarted
+// with the config.toml it wrote is not refused), while a change in a used
+// key still changes the fingerprint.
+func TestTrajectorySettingsIgnoreUnused(t *testing.T) {
+	for _, c := range configVariants() {
+		want, err := c.trajectorySettings()
+		if err != nil {
+			t.Fatal(err)
+		}
+		for k := range want {
+			if !c.Used(k) {
+				t.Errorf("%s: the fingerprint holds %s, which the configuration does not use", c.Name, k)
+			}
+		}
+		for _, k := range []string{"model.dt", "wavemaker.kind", "block.shape", "run.sample_steps", "diagnostics.norm"} {
+			if _, ok := want[k]; !ok {
+				t.Errorf("%s: the fingerprint lacks %s", c.Name, k)
+			}
+		}
+		for _, k := range freeKeys {
+			if _, ok := want[k]; ok {
+				t.Errorf("%s: the fingerprint holds the free key %s", c.Name, k)
+			}
+		}
+		odd := clonePatches(c)
+		for _, key := range unusedKeys(c) {
+			odd = withKey(odd, key)
+		}
+		for _, o := range []Config{c, odd} {
+			back, err := Decode(strings.NewReader(o.Documented()), Default())
+			if err != nil {
+				t.Fatalf("%s: %v", c.Name, err)
+			}
+			for _, x := range []Config{o, back} {
+				got, err := x.trajectorySettings()
+				if err != nil {
+					t.Fatal(err)
+				}
+				if d := settings.Diff(want, got); len(d) > 0 {
+					t.Errorf("%s: fingerprints differ:\n%s", c.Name, settings.Describe(d))
+				}
+			}
+		}
+		// a used key still counts
+		changed := c
+		changed.Model.Dt = c.Model.Dt / 2
+		if c.Model.Sponge.Rate != 0 {
+			changed.Model.Sponge.Width = c.Model.Sponge.Width / 2
+		}
+		got, err := changed.trajectorySettings()
+		if err != nil {
+			t.Fatal(err)
+		}
+		if d := settings.Diff(want, got); len(d) == 0 {
+			t.Errorf("%s: a change of model.dt left the fingerprint alone", c.Name)
+		}
+	}
+}
+
 // rangeProbes are values outside each documented range, by the phrase the
 // range starts with; each must be refused with an error naming the key.
 // lx and ly stand for the domain lengths of the configuration probed.

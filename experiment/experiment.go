@@ -214,11 +214,18 @@ func (e *Experiment) Checkpoint() (*qg.Checkpoint, error) {
 var freeKeys = []string{"name", "run.days", "run.report_days", "model.workers"}
 
 // trajectorySettings flattens the configuration to the keys a checkpoint
-// records: everything but freeKeys.
+// records: the keys the configuration uses (Config.Used) less freeKeys. A
+// key the choices leave unused is left out, so that the configuration a run
+// writes (Documented, which omits those keys) restarts the run.
 func (c Config) trajectorySettings() (map[string]string, error) {
 	m, err := settings.Flatten(c, "")
 	if err != nil {
 		return nil, err
+	}
+	for k := range m {
+		if _, known := KeyDocFor(k); known && !c.Used(k) {
+			delete(m, k)
+		}
 	}
 	for _, k := range freeKeys {
 		delete(m, k)
