@@ -3,6 +3,7 @@ package experiment
 import (
 	"errors"
 	"fmt"
+	"maps"
 	"math"
 	"os/exec"
 	"reflect"
@@ -616,6 +617,72 @@ func TestTrajectorySettingsIgnoreUnused(t *testing.T) {
 		if d := settings.Diff(want, got); len(d) == 0 {
 			t.Errorf("%s: a change of model.dt left the fingerprint alone", c.Name)
 		}
+	}
+}
+
+// TestRestartFromWrittenConfig runs a small version of every variant a few
+// steps, and restarts it from its checkpoint in an experiment built from
+// its own Documented TOML (where the unused keys, the model's among them,
+// have the default's values): the restart is accepted and continues bit
+// for bit like the original. A checkpoint whose fingerprint holds every
+// key, as those written before unused keys were left out, restarts too;
+// one written with another value of a used key is refused.
+func TestRestartFromWrittenConfig(t *testing.T) {
+	for _, v := range configVariants() {
+		c := small(v)
+		e, err := New(c)
+		if err != nil {
+			t.Fatalf("%s: %v", c.Name, err)
+		}
+		for range 3 {
+			if _, _, err := e.Advance(); err != nil {
+				t.Fatal(err)
+			}
+		}
+		ck, err := e.Checkpoint()
+		if err != nil {
+			t.Fatal(err)
+		}
+		back, err := Decode(strings.NewReader(c.Documented()), Default())
+		if err != nil {
+			t.Fatalf("%s: %v", c.Name, err)
+		}
+		r, err := New(back)
+		if err != nil {
+			t.Fatalf("%s: %v", c.Name, err)
+		}
+		full := *ck
+		if full.Settings, err = settings.Flatten(c, ""); err != nil {
+			t.Fatal(err)
+		}
+		for _, k := range freeKeys {
+			delete(full.Settings, k)
+		}
+		if err := r.Restore(&full); err != nil {
+			t.Errorf("%s: a checkpoint with every key in its fingerprint is refused: %v", c.Name, err)
+		}
+		other := *ck
+		other.Settings = maps.Clone(ck.Settings)
+		other.Settings["model.u2"] = "3.5"
+		var mismatch *qg.ConfigMismatch
+		if err := r.Restore(&other); !errors.As(err, &mismatch) || !strings.Contains(err.Error(), "model.u2") {
+			t.Errorf("%s: a checkpoint with another model.u2: got %v, want a refusal naming it", c.Name, err)
+		}
+		if err := r.Restore(ck); err != nil {
+			t.Errorf("%s: a restart with the written configuration is refused: %v", c.Name, err)
+		} else {
+			for _, x := range []*Experiment{e, r} {
+				if _, _, err := x.Advance(); err != nil {
+					t.Fatal(err)
+				}
+			}
+			a, b := e.Model.Checkpoint(), r.Model.Checkpoint()
+			if !reflect.DeepEqual(a.Q, b.Q) {
+				t.Errorf("%s: the restarted run departs from the original", c.Name)
+			}
+		}
+		e.Close()
+		r.Close()
 	}
 }
 

@@ -5,6 +5,7 @@ import (
 	"encoding"
 	"errors"
 	"fmt"
+	"maps"
 	"math"
 
 	"github.com/eddyblock/eddyblock/internal/settings"
@@ -243,10 +244,28 @@ func (e *Experiment) Restore(c *qg.Checkpoint) error {
 	if err != nil {
 		return err
 	}
-	if d := settings.Diff(c.Settings, now); len(d) > 0 {
+	// A checkpoint written before the fingerprint left out the unused keys
+	// holds them all; those this configuration does not use are dropped
+	// (any key whose use differs between the two comes with a difference
+	// in the key that decides its use, which is compared).
+	was := maps.Clone(c.Settings)
+	for k := range was {
+		if _, known := KeyDocFor(k); known && !e.Config.Used(k) {
+			delete(was, k)
+		}
+	}
+	if d := settings.Diff(was, now); len(d) > 0 {
 		return &qg.ConfigMismatch{Changes: d}
 	}
-	if err := e.Model.Restore(c); err != nil {
+	// The model compares its whole configuration with the checkpoint's.
+	// Its keys that the configuration does not use (the filter's under a
+	// hyperviscosity, the sponge's width without a sponge) may differ — a
+	// configuration read back from its Documented TOML has the default's
+	// values there — and the used ones matched above, so the model is
+	// handed the checkpoint with its own configuration.
+	mc := *c
+	mc.Config = e.Model.Checkpoint().Config
+	if err := e.Model.Restore(&mc); err != nil {
 		return err
 	}
 	if bu, ok := e.Maker.(encoding.BinaryUnmarshaler); ok {
