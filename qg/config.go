@@ -190,6 +190,21 @@ type Physics struct {
 	U1, U2   float64 // imposed zonal flows, m s⁻¹
 }
 
+// GasConstant is the gas constant of dry air, J kg⁻¹ K⁻¹ (common
+// practice).
+const GasConstant = 287.04
+
+// KelvinPerThickness converts the thickness streamfunction ψ1 − ψ2
+// (m² s⁻¹) to the temperature between the layers' mid-levels (K), by the
+// hydrostatic and geostrophic relations: f0/(R ln(p2/p1)), with p1 and p2
+// the middles of the layers of a 1000 hPa column divided in the ratio
+// H1:H2.
+func (c *Config) KelvinPerThickness() float64 {
+	pi := 1000 * c.Delta / (1 + c.Delta)
+	p1, p2 := pi/2, (pi+1000)/2
+	return c.F0 / (GasConstant * math.Log(p2/p1))
+}
+
 // Physics derives the layer parameters from the configuration.
 func (c *Config) Physics() Physics {
 	f1 := 1 / (c.Ld * c.Ld * (1 + c.Delta))

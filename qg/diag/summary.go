@@ -72,8 +72,6 @@ type Energetics struct {
 	ClosureError float64 `json:"closure_error"`
 }
 
-// rdry is the gas constant of dry air, J kg⁻¹ K⁻¹ (common practice).
-const rdry = 287.04
 
 // Summary returns the one-number answers over the averaging window.
 func (a *Accumulator) Summary() Summary {
@@ -220,11 +218,7 @@ func (a *Accumulator) heatFlux(an *analysis) []float64 {
 // kelvinPerPsi converts ψ1 − ψ2 (m² s⁻¹) to the temperature between the
 // layers' mid-levels, K: f0/(R_d ln(p2/p1)), p1 and p2 the middles of the
 // layers of a 1000 hPa column divided in the ratio H1:H2.
-func (a *Accumulator) kelvinPerPsi() float64 {
-	pi := 1000 * a.ph.W1
-	p1, p2 := pi/2, (pi+1000)/2
-	return a.cfg.F0 / (rdry * math.Log(p2/p1))
-}
+func (a *Accumulator) kelvinPerPsi() float64 { return a.cfg.KelvinPerThickness() }
 
 // patternHeight returns the largest |f0 P1/g| on the grid, m.
 func (a *Accumulator) patternHeight() float64 {
