@@ -72,7 +72,6 @@ type Energetics struct {
 	ClosureError float64 `json:"closure_error"`
 }
 
-
 // Summary returns the one-number answers over the averaging window.
 func (a *Accumulator) Summary() Summary {
 	s := Summary{Mode: string(a.mode), Norm: a.opt.Norm, Transient: a.opt.Transient, Samples: a.n,
