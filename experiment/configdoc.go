@@ -416,7 +416,7 @@ func (w docWriter) comment(key string, d KeyDoc, full bool) {
 		}
 		if unit != "" {
 			// a unit is not broken across lines
-			extra = append(extra, "Unit: "+strings.ReplaceAll(unit, " ", nbsp)+".")
+			extra = append(extra, "Unit:"+nbsp+strings.ReplaceAll(unit, " ", nbsp)+".")
 		}
 		if d.Allowed != "" {
 			extra = append(extra, "Allowed: "+d.Allowed+".")
