@@ -9,7 +9,6 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/eddyblock/eddyblock/experiment"
 	"github.com/eddyblock/eddyblock/qg"
 )
 
@@ -108,56 +107,5 @@ func TestCheckpointRestart(t *testing.T) {
 	}
 	if err := run([]string{"run", "-config", long, "-restart", filepath.Join(dir, "missing.ckpt")}, &out, &errb); err == nil {
 		t.Error("missing restart file accepted")
-	}
-}
-
-// TestSweep runs a two-member sweep of a short, coarse experiment, and checks
-// that a bad value is refused with the key named and that a job-array member
-// runs alone.
-func TestSweep(t *testing.T) {
-	dir := t.TempDir()
-	// the stochastic built-in experiment, whose injection rate is swept,
-	// coarse and short
-	st := experiment.StormTrack()
-	st.Model.Nx, st.Model.Ny, st.Model.Dt = 64, 32, 3600
-	st.Run.Days, st.Run.SpinUpDays, st.Run.ReportDays, st.Run.SampleSteps = 4, 1, 2, 1
-	cfg := filepath.Join(dir, "short.toml")
-	os.WriteFile(cfg, []byte(st.TOML()), 0o644)
-	var out, errb bytes.Buffer
-	err := run([]string{"sweep", "-config", cfg, "-key", "wavemaker.injection_rate", "-values", "1e-6,4e-6", "-jobs", "2", "-out", dir}, &out, &errb)
-	if err != nil {
-		t.Fatalf("sweep: %v\n%s", err, errb.String())
-	}
-	lines := strings.Split(strings.TrimSpace(out.String()), "\n")
-	if len(lines) != 3 || !strings.HasPrefix(lines[1], "1e-6") || !strings.HasPrefix(lines[2], "4e-6") {
-		t.Errorf("sweep table:\n%s", out.String())
-	}
-	for _, m := range []string{"member-000", "member-001"} {
-		if _, err := os.Stat(filepath.Join(dir, m, "summary.json")); err != nil {
-			t.Errorf("%s: %v", m, err)
-		}
-	}
-	// The injected energy scales with the set rate: the two members'
-	// summaries must differ (a sweep that ignored the key would not).
-	var s0, s1 map[string]any
-	b0, _ := os.ReadFile(filepath.Join(dir, "member-000", "summary.json"))
-	b1, _ := os.ReadFile(filepath.Join(dir, "member-001", "summary.json"))
-	json.Unmarshal(b0, &s0)
-	json.Unmarshal(b1, &s1)
-	e0 := s0["energy"].(map[string]any)["rates"].(map[string]any)["injection"].(float64)
-	e1 := s1["energy"].(map[string]any)["rates"].(map[string]any)["injection"].(float64)
-	if !(e1 > 2*e0) {
-		t.Errorf("injection rates %g and %g do not follow the swept values 1e-6 and 4e-6", e0, e1)
-	}
-	out.Reset()
-	if err := run([]string{"sweep", "-config", cfg, "-key", "wavemaker.injection_rate", "-values", "1e-6,-2"}, &out, &errb); err == nil || !strings.Contains(err.Error(), "wavemaker.injection_rate") {
-		t.Errorf("bad value: got %v, want an error naming wavemaker.injection_rate", err)
-	}
-	out.Reset()
-	if err := run([]string{"sweep", "-config", cfg, "-key", "model.drag", "-values", "1e-6,2e-6", "-member", "1"}, &out, &errb); err != nil {
-		t.Fatal(err)
-	}
-	if lines := strings.Split(strings.TrimSpace(out.String()), "\n"); len(lines) != 2 || !strings.HasPrefix(lines[1], "2e-6") {
-		t.Errorf("member 1 alone:\n%s", out.String())
 	}
 }

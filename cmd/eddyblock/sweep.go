@@ -1,139 +1,347 @@
 package main
 
 import (
+	"context"
 	"errors"
 	"flag"
 	"fmt"
 	"io"
-	"path/filepath"
-	"runtime"
+	"os"
 	"strings"
 	"sync"
+	"sync/atomic"
+	"time"
+
+	"github.com/schollz/progressbar/v3"
+	"golang.org/x/term"
 
 	"github.com/eddyblock/eddyblock/experiment"
-	"github.com/eddyblock/eddyblock/output"
+	"github.com/eddyblock/eddyblock/sweep"
 )
 
-// sweepMember is one run of a sweep: the value of the swept key and its
-// configuration.
-type sweepMember struct {
-	value string
-	cfg   experiment.Config
+const sweepUsage = `usage:
+  eddyblock sweep -file sweep.toml -out DIR [-jobs N] [-shard i/n|auto|auto/n] [-workers N] [-plot] [-quiet]
+  eddyblock sweep -key K -values v1,v2,... [-config file.toml] [-out DIR] [-jobs N] [-member i] ...
+
+A sweep file names configuration keys with lists of values ([vary], a
+Cartesian product; [[vary_together]], lists varied together) on top of a
+base configuration (base = "built-in name" or base_file = "file.toml") and
+[fixed] keys; see the package documentation of sweep. Each member runs in
+DIR/<index>_<key>=<value>,...; running the same sweep again skips finished
+members and resumes interrupted ones. -shard i/n runs members i, i+n, i+2n,
+... (0-based); -shard auto takes i from SLURM_ARRAY_TASK_ID and runs that
+one member (submit with sbatch --array=0-(members-1)); -shard auto/n takes
+the shard of n from it (sbatch --array=0-(n-1)).`
+
+// sweepFlags are the options of the sweep command.
+type sweepFlags struct {
+	file, key, values, config, out, shard string
+	jobs, workers, member                 int
+	plot, quiet                           bool
+	set                                   map[string]bool
 }
 
-// sweepMembers builds one configuration per value by decoding "key = value"
-// on top of base, so every key a configuration file accepts can be swept and
-// is validated as in a file.
-func sweepMembers(base experiment.Config, key string, values []string) ([]sweepMember, error) {
-	table, name := "", key
-	if dot := strings.LastIndex(key, "."); dot >= 0 {
-		table, name = "["+key[:dot]+"]\n", key[dot+1:]
-	}
-	members := make([]sweepMember, len(values))
-	for i, v := range values {
-		v = strings.TrimSpace(v)
-		c, err := experiment.Decode(strings.NewReader(fmt.Sprintf("%s%s = %s\n", table, name, v)), base)
-		if err != nil {
-			return nil, fmt.Errorf("sweep %s = %s: %w", key, v, err)
-		}
-		c.Name = fmt.Sprintf("%s %s=%s", base.Name, key, v)
-		members[i] = sweepMember{v, c}
-	}
-	return members, nil
-}
-
-// cmdSweep runs the experiment once per value of one configuration key, in
-// parallel, and prints a table of the one-number answers. With -member it
-// runs a single member, for a cluster's job array.
-func cmdSweep(args []string, stdout, stderr io.Writer) error {
+func parseSweepFlags(args []string, stderr io.Writer) (*sweepFlags, error) {
+	f := &sweepFlags{}
 	fs := flag.NewFlagSet("sweep", flag.ContinueOnError)
 	fs.SetOutput(stderr)
-	cfgPath := fs.String("config", "", "TOML configuration file (default: the built-in experiment)")
-	key := fs.String("key", "", "configuration key to sweep, e.g. wavemaker.injection_rate")
-	vals := fs.String("values", "", "comma-separated values, as written in a configuration file")
-	jobs := fs.Int("jobs", runtime.NumCPU(), "runs at the same time")
-	member := fs.Int("member", -1, "run only this member (0-based), e.g. a job-array index")
-	out := fs.String("out", "", "directory for one sub-directory of JSON outputs per member")
+	fs.Usage = func() { fmt.Fprintln(stderr, sweepUsage); fs.PrintDefaults() }
+	fs.StringVar(&f.file, "file", "", "sweep file (TOML)")
+	fs.StringVar(&f.key, "key", "", "one configuration key to sweep, e.g. wavemaker.injection_rate (with -values)")
+	fs.StringVar(&f.values, "values", "", "comma-separated values of -key, as written in a configuration file")
+	fs.StringVar(&f.config, "config", "", "with -key: the base configuration file (default: the built-in experiment)")
+	fs.StringVar(&f.out, "out", "", "sweep directory: one sub-directory per member (required with -file)")
+	fs.IntVar(&f.jobs, "jobs", 0, "members run at the same time (default: cores / workers per member, at least 1)")
+	fs.IntVar(&f.workers, "workers", 0, "goroutines inside each member's step (overrides model.workers)")
+	fs.StringVar(&f.shard, "shard", "", "run members i, i+n, ... of the sweep: i/n (0-based), auto (i = $SLURM_ARRAY_TASK_ID, one member per task) or auto/n")
+	fs.IntVar(&f.member, "member", -1, "run member i alone (0-based); the same as -shard i/(number of members)")
+	fs.BoolVar(&f.plot, "plot", false, "also write each member's figures")
+	fs.BoolVar(&f.quiet, "quiet", false, "print only the table of answers")
 	if err := fs.Parse(args); err != nil {
-		return err
+		return nil, err
 	}
-	if *key == "" || *vals == "" {
-		return errors.New("sweep needs -key and -values")
+	if fs.NArg() > 0 {
+		return nil, fmt.Errorf("sweep: unexpected argument %q (options come as -name value)", fs.Arg(0))
 	}
-	if *jobs < 1 {
-		return fmt.Errorf("-jobs = %d, want at least 1", *jobs)
+	f.set = map[string]bool{}
+	fs.Visit(func(fl *flag.Flag) { f.set[fl.Name] = true })
+	switch {
+	case f.file != "" && (f.key != "" || f.values != ""):
+		return nil, errors.New("sweep: give a sweep file (-file) or one key (-key and -values), not both")
+	case f.file == "" && (f.key == "" || f.values == ""):
+		return nil, errors.New("sweep: give a sweep file (-file sweep.toml) or one key with its values (-key K -values v1,v2)\n" + sweepUsage)
+	case f.file != "" && f.config != "":
+		return nil, errors.New("sweep: -config goes with -key; a sweep file names its base itself (base_file = \"file.toml\")")
+	case f.file != "" && f.out == "":
+		return nil, errors.New("sweep: -out DIR: a sweep file's members need a directory")
+	case f.set["jobs"] && f.jobs < 1:
+		return nil, fmt.Errorf("-jobs %d: must be at least 1", f.jobs)
+	case f.set["workers"] && f.workers < 1:
+		return nil, fmt.Errorf("-workers %d: must be at least 1", f.workers)
+	case f.set["member"] && f.set["shard"]:
+		return nil, errors.New("sweep: give -member or -shard, not both")
+	case f.set["member"] && f.member < 0:
+		return nil, fmt.Errorf("-member %d: must be 0 or more", f.member)
 	}
-	base := experiment.Default()
-	if *cfgPath != "" {
-		var err error
-		if base, err = experiment.Load(*cfgPath); err != nil {
-			return err
+	for _, name := range []string{"file", "config", "out"} {
+		if v := fs.Lookup(name).Value.String(); f.set[name] && strings.TrimSpace(v) == "" {
+			return nil, fmt.Errorf("-%s: empty path", name)
 		}
 	}
-	members, err := sweepMembers(base, *key, strings.Split(*vals, ","))
+	return f, nil
+}
+
+// cmdSweep runs a sweep: the members of a sweep file, or of one key's
+// values, in parallel, resumably, in a directory of their own each.
+func cmdSweep(args []string, stdout, stderr io.Writer) error {
+	f, err := parseSweepFlags(args, stderr)
 	if err != nil {
 		return err
 	}
-	if *member >= len(members) {
-		return fmt.Errorf("-member = %d, but the sweep has %d members", *member, len(members))
+	var spec *sweep.Spec
+	if f.file != "" {
+		spec, err = sweep.Load(f.file)
+	} else {
+		spec, err = sweep.OneKey(f.config, f.key, strings.Split(f.values, ","))
 	}
-	// every member prepared (configuration, initial state, output
-	// directory) before any runs
-	runs := make([]*output.Run, len(members))
-	for i := range members {
-		if *member >= 0 && i != *member {
-			continue
+	if err != nil {
+		return err
+	}
+	plan, err := spec.Expand()
+	if err != nil {
+		return err
+	}
+	n := len(plan.Members)
+	var shard sweep.Shard
+	switch {
+	case f.set["member"]:
+		if f.member >= n {
+			return fmt.Errorf("-member %d: the sweep has %d members (0–%d)", f.member, n, n-1)
 		}
-		o := output.Options{}
-		if *out != "" {
-			o.Dir = filepath.Join(*out, fmt.Sprintf("member-%03d", i))
+		shard = sweep.Shard{Index: f.member, Count: n}
+	default:
+		if shard, err = sweep.ParseShard(f.shard, os.Getenv, n); err != nil {
+			return fmt.Errorf("-shard: %w", err)
 		}
-		r, err := output.Prepare(members[i].cfg, o)
+		if id := os.Getenv(sweep.ArrayTaskVar); id != "" && f.shard == "" && !f.quiet {
+			fmt.Fprintf(stderr, "note: %s=%s is set but -shard is not: this task runs every member that is not finished or running elsewhere (-shard auto runs member %s alone)\n",
+				sweep.ArrayTaskVar, id, id)
+		}
+	}
+	if shard.Count > n && shard.Index >= n {
+		fmt.Fprintf(stdout, "%v of a sweep of %d members holds no member: nothing to do\n", shard, n)
+		return nil
+	}
+	dir := f.out
+	if dir == "" { // the one-key form without a directory keeps nothing
+		tmp, err := os.MkdirTemp("", "eddyblock-sweep-")
 		if err != nil {
-			return fmt.Errorf("member %d (%s = %s): %w", i, *key, members[i].value, err)
+			return err
 		}
-		defer r.Close()
-		runs[i] = r
+		defer os.RemoveAll(tmp)
+		dir = tmp
+	}
+	ui := newSweepProgress(stdout, f.quiet)
+	run, err := sweep.Prepare(plan, sweep.Options{
+		Dir: dir, Jobs: f.jobs, Workers: f.workers, Shard: shard, Plot: f.plot,
+		Event: ui.event, Report: ui.report, OnStep: ui.step,
+	})
+	if err != nil {
+		var de *sweep.DirError
+		var ce *sweep.ChangedError
+		if errors.As(err, &de) || errors.As(err, &ce) {
+			return fmt.Errorf("-out: %w", err)
+		}
+		return err
+	}
+	c := run.Counts()
+	workers := f.workers
+	if workers == 0 {
+		workers = plan.Base.Model.Workers
+	}
+	if !f.quiet {
+		fmt.Fprintf(stdout, "sweep %q: %d members over %s; %v: %d to run, %d finished earlier; %d at a time × %d worker(s); directory %s\n",
+			plan.Name, n, strings.Join(plan.Keys, ", "), shard, c.Left, c.Done, run.Jobs(), workers, f.out)
 	}
 	ctx, sig, stopSignals := signalContext()
 	defer stopSignals()
-	results := make([]*experiment.Experiment, len(members))
-	errs := make([]error, len(members))
-	sem := make(chan struct{}, *jobs)
-	var wg sync.WaitGroup
-	for i, r := range runs {
-		if r == nil {
-			continue
+	ui.begin(run)
+	err = run.Execute(ctx)
+	ui.end()
+	if s := sig(); s != nil && errors.Is(err, context.Canceled) {
+		stoppedN := 0
+		for _, o := range run.Outcomes() {
+			if o.Status == sweep.Stopped {
+				stoppedN++
+			}
 		}
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			sem <- struct{}{}
-			defer func() { <-sem }()
-			results[i], errs[i] = r.Experiment(), r.Execute(ctx)
-		}()
-	}
-	wg.Wait()
-	if s := sig(); s != nil {
-		fmt.Fprintf(stdout, "sweep stopped by %s; members that had not finished wrote no outputs\n", s.name)
+		fmt.Fprintf(stdout, "\nsweep stopped by %s: %d running member(s) wrote their checkpoints; run the same command again to resume\n", s.name, stoppedN)
 		return s
 	}
-	fmt.Fprintf(stdout, "%-24s %12s %12s %12s %12s %10s %10s\n", *key, "eddy/day", "vort/day", "interf/day", "corr", "index", "EKE1")
-	var firstErr error
-	for i, m := range members {
-		if *member >= 0 && i != *member {
-			continue
-		}
-		if errs[i] != nil {
-			fmt.Fprintf(stdout, "%-24s failed: %v\n", m.value, errs[i])
-			if firstErr == nil {
-				firstErr = fmt.Errorf("member %d (%s = %s): %w", i, *key, m.value, errs[i])
-			}
-			continue
-		}
-		s := results[i].Summary()
-		fmt.Fprintf(stdout, "%-24s %+12.4f %+12.4f %+12.4f %+12.3f %10.3f %10.3g\n", m.value,
-			s.Eddy.Rate, s.EddyVorticity.Rate, s.EddyInterface.Rate, s.EddyVorticity.Correlation, s.Index.Mean, s.EKE[0])
+	if t, gerr := sweep.Gather(dir); gerr == nil {
+		fmt.Fprintln(stdout)
+		writeAnswerTable(stdout, t, shard)
+	} else if err == nil {
+		err = gerr
 	}
-	return firstErr
+	if f.out != "" && !f.quiet {
+		fmt.Fprintf(stdout, "outputs in %s; eddyblock gather %s writes the table of every member\n", f.out, quote(f.out))
+	}
+	return err
+}
+
+// sweepProgress shows a sweep's progress: on a terminal a bar of the
+// members' model time with the members done, running and left, the
+// members' starts and ends printed above it; otherwise (a batch job's log)
+// a line when a member starts or ends and each member's progress lines,
+// prefixed with its name. -quiet shows neither.
+type sweepProgress struct {
+	w     io.Writer
+	quiet bool
+	tty   bool
+
+	mu     sync.Mutex // guards what follows and the writes to w
+	bar    *progressbar.ProgressBar
+	counts sweep.Counts
+	steps  atomic.Int64 // steps taken by every member, this run
+	stop   chan struct{}
+	done   chan struct{}
+	total  int
+}
+
+func newSweepProgress(w io.Writer, quiet bool) *sweepProgress {
+	p := &sweepProgress{w: w, quiet: quiet}
+	if f, ok := w.(*os.File); ok && term.IsTerminal(int(f.Fd())) {
+		p.tty = true
+	}
+	return p
+}
+
+// begin starts the bar: its length is the steps of every member to run.
+func (p *sweepProgress) begin(r *sweep.Run) {
+	p.counts = r.Counts()
+	if p.quiet || !p.tty {
+		return
+	}
+	for _, o := range r.Outcomes() {
+		if o.Status == sweep.Pending {
+			c := o.Member.Config
+			p.total += int(c.Run.Days*86400/c.Model.Dt + 0.5)
+		}
+	}
+	p.bar = progressbar.NewOptions(max(1, p.total),
+		progressbar.OptionSetWriter(p.w),
+		progressbar.OptionSetWidth(30),
+		progressbar.OptionSetPredictTime(true),
+		progressbar.OptionShowDescriptionAtLineEnd(),
+		progressbar.OptionThrottle(200*time.Millisecond),
+		progressbar.OptionClearOnFinish(),
+	)
+	p.describe()
+	p.stop, p.done = make(chan struct{}), make(chan struct{})
+	go func() {
+		defer close(p.done)
+		t := time.NewTicker(250 * time.Millisecond)
+		defer t.Stop()
+		for {
+			select {
+			case <-p.stop:
+				return
+			case <-t.C:
+				p.mu.Lock()
+				p.bar.Set(int(p.steps.Load()))
+				p.mu.Unlock()
+			}
+		}
+	}()
+}
+
+// describe sets the bar's text; p.mu is held.
+func (p *sweepProgress) describe() {
+	p.bar.Describe("members: " + countsText(p.counts))
+}
+
+// countsText says how many members are done, running and left.
+func countsText(c sweep.Counts) string {
+	d := fmt.Sprintf("%d done, %d running, %d left", c.Done, c.Running, c.Left)
+	if c.Stopped > 0 {
+		d += fmt.Sprintf(", %d stopped", c.Stopped)
+	}
+	if c.Failed > 0 {
+		d += fmt.Sprintf(", %d failed", c.Failed)
+	}
+	return d
+}
+
+// event reports a member's start or end.
+func (p *sweepProgress) event(ev sweep.Event) {
+	if p.quiet {
+		return
+	}
+	p.mu.Lock()
+	defer p.mu.Unlock()
+	p.counts = ev.Counts
+	m := ev.Member
+	var line string
+	switch ev.Status {
+	case sweep.Running:
+		line = fmt.Sprintf("member %d %s: started", m.Index, m.Name)
+		if ev.StartDay > 0 {
+			line = fmt.Sprintf("member %d %s: resumed from its checkpoint at day %.2f", m.Index, m.Name, ev.StartDay)
+			// the steps taken before count as done
+			c := m.Config
+			p.steps.Add(int64(ev.StartDay*86400/c.Model.Dt + 0.5))
+		}
+	case sweep.Done:
+		line = fmt.Sprintf("member %d %s: done in %.1f s", m.Index, m.Name, ev.Wall.Seconds())
+		if ev.Err != nil {
+			line += fmt.Sprintf(" (%v)", ev.Err)
+		}
+	case sweep.Finished:
+		line = fmt.Sprintf("member %d %s: finished by another process", m.Index, m.Name)
+	case sweep.Stopped:
+		line = fmt.Sprintf("member %d %s: stopped at day %.2f, checkpoint written", m.Index, m.Name, ev.EndDay)
+	case sweep.Failed:
+		line = fmt.Sprintf("member %d %s: FAILED: %v", m.Index, m.Name, ev.Err)
+	case sweep.Busy:
+		line = fmt.Sprintf("member %d %s: being run by another process, passed over", m.Index, m.Name)
+	}
+	line += "  [" + countsText(ev.Counts) + "]"
+	if p.bar != nil {
+		p.bar.Clear()
+		fmt.Fprintln(p.w, line)
+		p.describe()
+		p.bar.Set(int(p.steps.Load()))
+		return
+	}
+	fmt.Fprintln(p.w, line)
+}
+
+// report prints a member's progress line (not on a terminal, where the
+// bar stands for them).
+func (p *sweepProgress) report(m sweep.Member, pr experiment.Progress) {
+	if p.quiet || p.tty {
+		return
+	}
+	fmt.Fprintf(p.w, "%s: %v\n", m.Name, pr)
+}
+
+// step counts a step of a member.
+func (p *sweepProgress) step(sweep.Member, *experiment.Experiment) {
+	if p.bar != nil {
+		p.steps.Add(1)
+	}
+}
+
+// end removes the bar.
+func (p *sweepProgress) end() {
+	if p.bar == nil {
+		return
+	}
+	close(p.stop)
+	<-p.done
+	p.mu.Lock()
+	defer p.mu.Unlock()
+	p.bar.Finish()
+	p.bar.Clear()
 }
