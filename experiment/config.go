@@ -119,8 +119,26 @@ func prefix(p string, err error) error {
 // keep base's values) and validates the result. A key the configuration
 // does not know is an error naming it.
 func Decode(r io.Reader, base Config) (Config, error) {
+	doc, err := io.ReadAll(r)
+	if err != nil {
+		return Config{}, fmt.Errorf("config: %w", err)
+	}
 	c := base
-	md, err := toml.NewDecoder(r).Decode(&c)
+	// An array of tables replaces the base's array as a whole: decoding
+	// into the base's own slice would change the caller's base and let a
+	// patch inherit the keys it leaves out.
+	c.Wavemaker.Mask.Patches = append([]wavemaker.PatchConfig(nil), base.Wavemaker.Mask.Patches...)
+	var tree map[string]any
+	if _, err := toml.Decode(string(doc), &tree); err == nil {
+		if w, ok := tree["wavemaker"].(map[string]any); ok {
+			if m, ok := w["mask"].(map[string]any); ok {
+				if _, ok := m["patches"]; ok {
+					c.Wavemaker.Mask.Patches = nil
+				}
+			}
+		}
+	}
+	md, err := toml.NewDecoder(bytes.NewReader(doc)).Decode(&c)
 	if err != nil {
 		return Config{}, fmt.Errorf("config: %w", err)
 	}

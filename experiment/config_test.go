@@ -82,3 +82,33 @@ func TestDecodeErrors(t *testing.T) {
 		t.Errorf("partial file: run.days = %g, model changed: %v", c.Run.Days, c.Model != Default().Model)
 	}
 }
+
+// TestDecodeLeavesBaseAlone checks that decoding a file with an array of
+// patches neither changes the base configuration nor lets a patch inherit
+// a key it leaves out from the base's patch in the same place (common
+// practice: a decoded document replaces an array of tables as a whole).
+func TestDecodeLeavesBaseAlone(t *testing.T) {
+	base := StormTrack()
+	before := base.Wavemaker.Mask.Patches[0]
+	doc := "[[wavemaker.mask.patches]]\nx = 5.0e6\ny = 5.0e6\nwidth_x = 1.0e6\n"
+	_, err := Decode(strings.NewReader(doc), base)
+	if err == nil {
+		t.Error("a patch without width_y was accepted (it would have inherited the base's)")
+	}
+	if base.Wavemaker.Mask.Patches[0] != before {
+		t.Errorf("Decode changed the base's first patch: %+v, was %+v", base.Wavemaker.Mask.Patches[0], before)
+	}
+	c, err := Decode(strings.NewReader(doc+"width_y = 7.0e5\n"), base)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(c.Wavemaker.Mask.Patches) != 1 || c.Wavemaker.Mask.Patches[0].X != 5e6 {
+		t.Errorf("decoded patches %+v, want the file's one patch", c.Wavemaker.Mask.Patches)
+	}
+	if base.Wavemaker.Mask.Patches[0] != before || len(base.Wavemaker.Mask.Patches) != 2 {
+		t.Error("Decode changed the base's patches")
+	}
+	if _, err := Decode(strings.NewReader("[wavemaker]\nkind = \"white\"\nseed = -1\n"), base); err == nil || !strings.Contains(err.Error(), "wavemaker.seed") {
+		t.Errorf("a negative seed: %v, want an error naming wavemaker.seed", err)
+	}
+}

@@ -38,7 +38,7 @@ func globalAttrs(c experiment.Config, title string) []netcdf.Attr {
 		{Name: "source", Value: Version()},
 		{Name: "experiment", Value: c.Name},
 		{Name: "comment", Value: Caution},
-		{Name: "configuration", Value: c.TOML()},
+		{Name: "configuration", Value: c.Documented()},
 	}
 }
 

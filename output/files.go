@@ -132,7 +132,7 @@ func writeAll(dir string, e *experiment.Experiment, plot bool) error {
 	if err := writeJSON(filepath.Join(dir, SeriesFile), e.Diag.Series()); err != nil {
 		return err
 	}
-	if err := writeSynced(filepath.Join(dir, ConfigFile), []byte(e.Config.TOML())); err != nil {
+	if err := writeSynced(filepath.Join(dir, ConfigFile), []byte(e.Config.Documented())); err != nil {
 		return err
 	}
 	if err := WriteMeans(filepath.Join(dir, MeansFile), e); err != nil {

@@ -202,6 +202,9 @@ func (c *Config) Validate() error {
 	default:
 		return fieldErr("vertical", string(c.Vertical), `must be "upper", "lower", "barotropic" or "baroclinic"`)
 	}
+	if c.Seed > math.MaxInt64 {
+		return fieldErr("seed", c.Seed, "must be from 0 to 2⁶³ − 1 (a negative number in a file reads as a huge one)")
+	}
 	mk := c.Mask
 	switch mk.Kind {
 	case NoMask:

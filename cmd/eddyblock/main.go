@@ -69,7 +69,7 @@ func run(args []string, stdout, stderr io.Writer) error {
 		default:
 			return errors.New("config takes at most one built-in experiment's name\n" + usage)
 		}
-		fmt.Fprint(stdout, c.TOML())
+		fmt.Fprint(stdout, c.Documented())
 		return nil
 	case "check":
 		if len(args) != 2 {
