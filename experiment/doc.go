@@ -9,8 +9,10 @@
 // train strained by the block), [StormTrack] a stochastic storm track that
 // ends at the block, [WhiteNoiseControl] the default's control with white
 // noise in the wave train's place, and [Builtin] any of them by name;
-// [Config.TOML] prints a configuration as a document that [Decode] and
-// [Load] read back. Unknown keys are errors, so a misspelt key never
+// [Config.Documented] prints a configuration as TOML with a comment on
+// every key (meaning, unit, allowed range), leaving out what the chosen
+// options do not use ([Config.Used]), a document that [Decode] and [Load]
+// read back. Unknown keys are errors, so a misspelt key never
 // silently falls back to a default.
 //
 // [New] builds an [Experiment] (checking the initial state as a step
