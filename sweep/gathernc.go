@@ -6,6 +6,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/eddyblock/eddyblock/experiment"
 	"github.com/eddyblock/eddyblock/output"
 	"github.com/eddyblock/eddyblock/output/netcdf"
 )
@@ -91,6 +92,10 @@ func (t *Table) WriteNetCDF(path string) error {
 		}
 		used[name] = true
 		attrs := []netcdf.Attr{{Name: "configuration_key", Value: key}}
+		long := "configuration key " + key
+		if d, ok := experiment.KeyDocFor(key); ok {
+			long = d.Meaning + " (configuration key " + key + ")"
+		}
 		numeric := true
 		vals := make([]float64, n)
 		for i, r := range t.Rows {
@@ -98,14 +103,16 @@ func (t *Table) WriteNetCDF(path string) error {
 			numeric = numeric && ok
 			vals[i] = v
 		}
-		long := "configuration key " + key + " (units as in the configuration file)"
 		if !numeric {
 			text := make([]string, n)
 			for i, r := range t.Rows {
 				text[i] = plain(r.Params[k])
 			}
-			addText(name, "configuration key "+key, text, attrs...)
+			addText(name, long, text, attrs...)
 			continue
+		}
+		if u := paramUnits(key); u != "" {
+			attrs = append(attrs, netcdf.Attr{Name: "units", Value: u})
 		}
 		h.Vars = append(h.Vars, netcdf.Var{Name: name, Type: netcdf.Double, Dims: []string{"member"},
 			Attrs: append([]netcdf.Attr{{Name: "long_name", Value: long}}, attrs...)})

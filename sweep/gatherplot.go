@@ -4,8 +4,10 @@ import (
 	"cmp"
 	"fmt"
 	"slices"
+	"strconv"
 	"strings"
 
+	"github.com/eddyblock/eddyblock/experiment"
 	"github.com/eddyblock/eddyblock/output/figure"
 )
 
@@ -103,11 +105,11 @@ func (t *Table) Figure(o PlotOptions) (*figure.XY, error) {
 	if len(order) == 0 {
 		return nil, fmt.Errorf("gather: no finished member to plot")
 	}
-	ylabel := o.Y
+	ylabel := withUnits(o.Y, paramUnits(o.Y))
 	if yAnswer >= 0 {
-		ylabel = t.Answers[yAnswer].Name + " (" + t.Answers[yAnswer].Units + ")"
+		ylabel = withUnits(t.Answers[yAnswer].Name, t.Answers[yAnswer].Units)
 	}
-	f := &figure.XY{Title: t.Name, XLabel: o.X, YLabel: ylabel, LogX: o.LogX}
+	f := &figure.XY{Title: t.Name, XLabel: withUnits(o.X, paramUnits(o.X)), YLabel: ylabel, LogX: o.LogX}
 	for _, label := range order {
 		pts := lines[label]
 		slices.SortStableFunc(pts, func(a, b point) int { return cmp.Compare(a.x, b.x) })
@@ -118,4 +120,51 @@ func (t *Table) Figure(o PlotOptions) (*figure.XY, error) {
 		f.Lines = append(f.Lines, l)
 	}
 	return f, nil
+}
+
+// paramUnits returns the units of a configuration key (UDUNITS), or "".
+func paramUnits(key string) string {
+	d, ok := experiment.KeyDocFor(key)
+	if !ok {
+		return ""
+	}
+	return d.Unit
+}
+
+// withUnits writes "name (units)" with the units' exponents as
+// superscripts ("day-1" → "day⁻¹"), or name alone for no units or "1".
+func withUnits(name, units string) string {
+	if units == "" || units == "1" {
+		return name
+	}
+	return name + " (" + prettyUnits(units) + ")"
+}
+
+// prettyUnits writes the integer exponents of UDUNITS symbols ("m2 s-3")
+// as superscripts ("m² s⁻³").
+func prettyUnits(u string) string {
+	const sup = "⁰¹²³⁴⁵⁶⁷⁸⁹"
+	digits := []rune(sup)
+	fields := strings.Fields(u)
+	for i, f := range fields {
+		j := strings.IndexAny(f, "-0123456789")
+		if j <= 0 {
+			continue
+		}
+		exp := f[j:]
+		if _, err := strconv.Atoi(exp); err != nil {
+			continue
+		}
+		var b strings.Builder
+		b.WriteString(f[:j])
+		for _, r := range exp {
+			if r == '-' {
+				b.WriteRune('⁻')
+			} else {
+				b.WriteRune(digits[r-'0'])
+			}
+		}
+		fields[i] = b.String()
+	}
+	return strings.Join(fields, " ")
 }
