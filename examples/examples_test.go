@@ -85,6 +85,7 @@ func TestExamplesRun(t *testing.T) {
 		{"driver", []string{"day 10: upper-layer height peaks at +"}},
 		{"heating", []string{"at the heating patch:", "response"}},
 		{"spinup", []string{"day  10", "day 100"}},
+		{"sweep", []string{"block height", "6 of 6 members done"}},
 		{"tracksweep", []string{"track offset", "3000 km"}},
 	} {
 		cmd := exec.Command(goTool(t), "run", "./examples/"+tc.dir)
