@@ -173,6 +173,7 @@ func Prepare(p *Plan, o Options) (*Run, error) {
 	if r.jobs == 0 {
 		r.jobs = max(1, runtime.NumCPU()/max(1, perMember))
 	}
+	r.jobs = max(1, min(r.jobs, r.counts.Left))
 	if err := claimDir(o.Dir, rec, p.Spec.Source()); err != nil {
 		return nil, err
 	}
@@ -191,7 +192,8 @@ func (r *Run) config(m Member) experiment.Config {
 	return c
 }
 
-// Jobs returns the number of members run at the same time.
+// Jobs returns the number of members run at the same time (at most the
+// number of members to run).
 func (r *Run) Jobs() int { return r.jobs }
 
 // Outcomes returns what became of each member of the shard, in order.

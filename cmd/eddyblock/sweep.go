@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"strconv"
 	"strings"
 	"sync"
 	"sync/atomic"
@@ -51,7 +52,7 @@ func parseSweepFlags(args []string, stderr io.Writer) (*sweepFlags, error) {
 	fs.StringVar(&f.values, "values", "", "comma-separated values of -key, as written in a configuration file")
 	fs.StringVar(&f.config, "config", "", "with -key: the base configuration file (default: the built-in experiment)")
 	fs.StringVar(&f.out, "out", "", "sweep directory: one sub-directory per member (required with -file)")
-	fs.IntVar(&f.jobs, "jobs", 0, "members run at the same time (default: cores / workers per member, at least 1)")
+	fs.IntVar(&f.jobs, "jobs", 0, "members run at the same time (default: cores, or $SLURM_CPUS_PER_TASK in a Slurm job, divided by the workers per member, at least 1)")
 	fs.IntVar(&f.workers, "workers", 0, "goroutines inside each member's step (overrides model.workers)")
 	fs.StringVar(&f.shard, "shard", "", "run members i, i+n, ... of the sweep: i/n (0-based), auto (i = $SLURM_ARRAY_TASK_ID, one member per task) or auto/n")
 	fs.IntVar(&f.member, "member", -1, "run member i alone (0-based); the same as -shard i/(number of members)")
@@ -141,9 +142,18 @@ func cmdSweep(args []string, stdout, stderr io.Writer) error {
 		defer os.RemoveAll(tmp)
 		dir = tmp
 	}
+	workers := f.workers
+	if workers == 0 {
+		workers = plan.Base.Model.Workers
+	}
+	jobs := f.jobs
+	if n, err := strconv.Atoi(os.Getenv("SLURM_CPUS_PER_TASK")); err == nil && n > 0 && !f.set["jobs"] {
+		// inside a Slurm job: the cores allocated to the task
+		jobs = max(1, n/max(1, workers))
+	}
 	ui := newSweepProgress(stdout, f.quiet)
 	run, err := sweep.Prepare(plan, sweep.Options{
-		Dir: dir, Jobs: f.jobs, Workers: f.workers, Shard: shard, Plot: f.plot,
+		Dir: dir, Jobs: jobs, Workers: f.workers, Shard: shard, Plot: f.plot,
 		Event: ui.event, Report: ui.report, OnStep: ui.step,
 	})
 	if err != nil {
@@ -155,10 +165,6 @@ func cmdSweep(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	c := run.Counts()
-	workers := f.workers
-	if workers == 0 {
-		workers = plan.Base.Model.Workers
-	}
 	if !f.quiet {
 		fmt.Fprintf(stdout, "sweep %q: %d members over %s; %v: %d to run, %d finished earlier; %d at a time × %d worker(s); directory %s\n",
 			plan.Name, n, strings.Join(plan.Keys, ", "), shard, c.Left, c.Done, run.Jobs(), workers, f.out)
