@@ -87,7 +87,10 @@ type Counts struct {
 	Running int
 	Left    int // pending
 	Stopped int // stopped with a checkpoint
-	Failed  int // failed or run elsewhere
+	Failed  int
+	// Elsewhere are members another process was running (their locks
+	// were held): that process finishes them.
+	Elsewhere int
 }
 
 // Event reports a change in a member's state.
@@ -214,10 +217,11 @@ func (r *Run) Counts() Counts {
 // time, each through output.Prepare with Resume (so that an interrupted
 // member continues from the checkpoint in its staging directory) and
 // output.Run.Execute. A member that fails does not stop the others; its
-// error is kept in <name>.failed and it runs again the next time. When ctx
-// is cancelled, running members write their checkpoints and stop, no other
-// member starts, and Execute returns ctx's error. Otherwise the error is a
-// *FailedError if a member failed or ran elsewhere, or nil.
+// error is kept in <name>.failed and it runs again the next time. A member
+// another process is running (its lock is held) is passed over (Busy).
+// When ctx is cancelled, running members write their checkpoints and
+// stop, no other member starts, and Execute returns ctx's error. Otherwise
+// the error is a *FailedError if a member failed, or nil.
 func (r *Run) Execute(ctx context.Context) error {
 	sem := make(chan struct{}, r.jobs)
 	var wg sync.WaitGroup
@@ -248,7 +252,7 @@ loop:
 	}
 	var bad []Outcome
 	for _, out := range r.Outcomes() {
-		if out.Status == Failed || out.Status == Busy {
+		if out.Status == Failed {
 			bad = append(bad, out)
 		}
 	}
@@ -272,6 +276,8 @@ func (r *Run) update(k int, out Outcome) {
 			r.counts.Done += d
 		case Stopped:
 			r.counts.Stopped += d
+		case Busy:
+			r.counts.Elsewhere += d
 		default:
 			r.counts.Failed += d
 		}
@@ -362,8 +368,7 @@ func (r *Run) runMember(ctx context.Context, k int) {
 	r.update(k, out)
 }
 
-// FailedError reports the members of a sweep that failed or were being
-// run by another process.
+// FailedError reports the members of a sweep that failed.
 type FailedError struct {
 	Dir     string
 	Members []Outcome
@@ -372,9 +377,9 @@ type FailedError struct {
 
 func (e *FailedError) Error() string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "sweep %s: %d of %d members did not finish:", e.Dir, len(e.Members), e.Of)
+	fmt.Fprintf(&b, "sweep %s: %d of %d members failed (running the sweep again retries them):", e.Dir, len(e.Members), e.Of)
 	for _, o := range e.Members {
-		fmt.Fprintf(&b, "\n  member %d (%s): %v: %v", o.Member.Index, o.Member.Name, o.Status, o.Err)
+		fmt.Fprintf(&b, "\n  member %d (%s): %v", o.Member.Index, o.Member.Name, o.Err)
 	}
 	return b.String()
 }

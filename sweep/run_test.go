@@ -320,3 +320,41 @@ func TestWorkersDoNotChangeResults(t *testing.T) {
 		t.Error("the tables differ between 1 and 2 workers")
 	}
 }
+
+// TestFailedMemberKeptAndRetried runs a sweep in which one member stops
+// with an error (its CFL number passes model.max_cfl = 0.36 on day 2, an
+// error qg's step check raises): the other member finishes, Execute
+// returns a *FailedError naming the failed one, the error is kept beside
+// it and shown by Gather, and running the sweep again tries it again while
+// the finished member is not run again.
+func TestFailedMemberKeptAndRetried(t *testing.T) {
+	p, err := parse(t, small+`
+[vary]
+"model.max_cfl" = [1.0, 0.36]
+`).Expand()
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	_, err = execute(t, context.Background(), p, Options{Dir: dir})
+	var fe *FailedError
+	if !errors.As(err, &fe) || len(fe.Members) != 1 || fe.Members[0].Member.Index != 1 || !strings.Contains(err.Error(), "CFL") {
+		t.Fatalf("got %v, want a FailedError naming member 1 and the CFL number", err)
+	}
+	tb, err := Gather(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if tb.Rows[0].State != StateDone || tb.Rows[1].State != StateFailed || !strings.Contains(tb.Rows[1].Note, "max_cfl") {
+		t.Errorf("gathered states %q, %q (note %q)", tb.Rows[0].State, tb.Rows[1].State, tb.Rows[1].Note)
+	}
+	var started []int
+	_, err = execute(t, context.Background(), p, Options{Dir: dir, Event: func(ev Event) {
+		if ev.Status == Running {
+			started = append(started, ev.Member.Index)
+		}
+	}})
+	if !errors.As(err, &fe) || len(started) != 1 || started[0] != 1 {
+		t.Errorf("second run: %v, members started %v; want member 1 alone, failing again", err, started)
+	}
+}

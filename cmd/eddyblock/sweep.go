@@ -276,6 +276,9 @@ func countsText(c sweep.Counts) string {
 	if c.Failed > 0 {
 		d += fmt.Sprintf(", %d failed", c.Failed)
 	}
+	if c.Elsewhere > 0 {
+		d += fmt.Sprintf(", %d running elsewhere", c.Elsewhere)
+	}
 	return d
 }
 
