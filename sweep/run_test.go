@@ -358,3 +358,44 @@ func TestFailedMemberKeptAndRetried(t *testing.T) {
 		t.Errorf("second run: %v, members started %v; want member 1 alone, failing again", err, started)
 	}
 }
+
+// TestMemberKilledAfterItsLastCheckpoint leaves a member as a process
+// killed after its last checkpoint (at the run's end) but before its files
+// were written would: a staging directory whose checkpoint is at the end.
+// A restart from it has nothing to integrate (output.Prepare refuses it),
+// so the sweep runs the member again from day 0, to the same answers.
+func TestMemberKilledAfterItsLastCheckpoint(t *testing.T) {
+	p := fourPlan(t)
+	ref := t.TempDir()
+	if _, err := execute(t, context.Background(), p, Options{Dir: ref, Shard: Shard{0, 4}}); err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	if _, err := Prepare(p, Options{Dir: dir, Shard: Shard{0, 4}}); err != nil {
+		t.Fatal(err)
+	}
+	m := p.Members[0]
+	ck := output.CheckpointIn(MemberDir(dir, m))
+	os.MkdirAll(filepath.Dir(ck), 0o755)
+	r, err := output.Prepare(m.Config, output.Options{Checkpoint: ck})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := r.Execute(context.Background()); err != nil {
+		t.Fatal(err)
+	}
+	r.Close()
+	if _, err := output.Prepare(m.Config, output.Options{Dir: MemberDir(dir, m), Resume: true}); err == nil {
+		t.Fatal("output.Prepare resumed from a checkpoint at the run's end; this test's premise is gone")
+	}
+	run, err := execute(t, context.Background(), p, Options{Dir: dir, Shard: Shard{0, 4}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if o := run.Outcomes()[0]; o.Status != Done || o.StartDay != 0 {
+		t.Errorf("member 0: %v from day %g, want done from day 0", o.Status, o.StartDay)
+	}
+	if a, b := csvOf(t, ref), csvOf(t, dir); a != b {
+		t.Errorf("tables differ:\n%s\n%s", a, b)
+	}
+}
