@@ -157,7 +157,9 @@ func TestProductOrder(t *testing.T) {
 }
 
 // TestListOfTablesKey checks that a key inside a list of tables
-// (a source patch's latitude) is varied in that entry alone.
+// (a source patch's latitude) is varied in that entry alone, the other
+// entry and keys kept as the built-in experiment has them (read from
+// experiment.StormTrack, independently of the sweep's expansion).
 func TestListOfTablesKey(t *testing.T) {
 	p, err := parse(t, small+`
 [vary]
@@ -206,7 +208,8 @@ func TestMemberNames(t *testing.T) {
 }
 
 // TestOneKeyValues checks the values of the one-key form: TOML values as
-// in a configuration file, a bare word taken as a string.
+// in a configuration file (TOML 1.0's integer, float, boolean and string
+// syntax), a bare word taken as a string.
 func TestOneKeyValues(t *testing.T) {
 	s, err := OneKey("", "block.mode", []string{"fixed", `"forced"`})
 	if err != nil {

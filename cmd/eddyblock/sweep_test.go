@@ -227,8 +227,9 @@ func runGather(args ...string) (string, error) {
 }
 
 // TestSweepShardAuto checks that -shard auto inside a Slurm job array runs
-// the member whose index is the task's (SLURM_ARRAY_TASK_ID), and that
-// an index beyond the members is refused with the sbatch line to use.
+// the member whose index is the task's (sbatch(1): each task of an array
+// gets its index in SLURM_ARRAY_TASK_ID), and that an index beyond the
+// members is refused with the sbatch line to use.
 func TestSweepShardAuto(t *testing.T) {
 	dir := t.TempDir()
 	f := sweepFile(t, dir, 4, "")
@@ -249,7 +250,8 @@ func TestSweepShardAuto(t *testing.T) {
 
 // TestGatherCommand runs gather on a sweep of which one member ran: it
 // writes the CSV and NetCDF tables and the figure, lists the missing
-// members, and refuses a bad -y before writing anything.
+// members, and refuses a bad -y before writing anything (common practice:
+// bad input is refused before anything is written).
 func TestGatherCommand(t *testing.T) {
 	dir := t.TempDir()
 	f := sweepFile(t, dir, 4, "")
