@@ -399,3 +399,36 @@ func TestMemberKilledAfterItsLastCheckpoint(t *testing.T) {
 		t.Errorf("tables differ:\n%s\n%s", a, b)
 	}
 }
+
+// TestSimultaneousClaims prepares the same sweep in a new directory from
+// eight goroutines at once, as the tasks of a job array starting together
+// do: every one succeeds, and one record is written, whole.
+func TestSimultaneousClaims(t *testing.T) {
+	p := fourPlan(t)
+	dir := filepath.Join(t.TempDir(), "new")
+	var wg sync.WaitGroup
+	errs := make([]error, 8)
+	for i := range errs {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			_, errs[i] = Prepare(p, Options{Dir: dir, Shard: Shard{i % 4, 4}})
+		}()
+	}
+	wg.Wait()
+	for i, err := range errs {
+		if err != nil {
+			t.Errorf("claim %d: %v", i, err)
+		}
+	}
+	rec, err := readRecord(dir)
+	if err != nil || len(rec.Members) != 4 {
+		t.Fatalf("record: %v", err)
+	}
+	ents, _ := os.ReadDir(dir)
+	for _, e := range ents {
+		if e.Name() != RecordFile && e.Name() != CopyFile {
+			t.Errorf("left behind: %s", e.Name())
+		}
+	}
+}
