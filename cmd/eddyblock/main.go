@@ -33,7 +33,9 @@ const usage = `usage:
   eddyblock run [-config file.toml] [-days N] [-spinup N] [-workers N] [-quiet]
                 [-out DIR [-plot]] [-checkpoint file] [-restart file]
                                 run an experiment (the built-in default without -config)
-  eddyblock sweep ...           run an experiment once per member of a sweep (eddyblock sweep -h)
+  eddyblock sweep -file sweep.toml -out DIR [-jobs N] [-shard i/n|auto]
+                                run an experiment once per member of a sweep, resumably (eddyblock sweep -h)
+  eddyblock gather DIR          one table (CSV, NetCDF) and a figure of a sweep's answers (eddyblock gather -h)
   eddyblock plot [-to DIR] RUNDIR
                                 draw the figures of a run from its NetCDF files
   eddyblock serve [-port N]     build the browser demo and serve it on 127.0.0.1 (eddyblock serve -h)
@@ -51,6 +53,8 @@ func run(args []string, stdout, stderr io.Writer) error {
 		return cmdRun(args[1:], stdout, stderr)
 	case "sweep":
 		return cmdSweep(args[1:], stdout, stderr)
+	case "gather":
+		return cmdGather(args[1:], stdout, stderr)
 	case "plot":
 		return cmdPlot(args[1:], stdout, stderr)
 	case "serve":
