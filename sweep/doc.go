@@ -2,9 +2,9 @@
 // file names configuration keys with lists of values, the members are
 // their combinations, each runs in a directory of its own, in parallel, on
 // one machine or spread over the tasks of a batch scheduler's job array,
-// and a sweep that was interrupted continues where it stopped. Gather
-// collects every member's parameters and one-number answers into one table
-// (CSV, NetCDF, a figure).
+// and a sweep that was interrupted continues where it stopped. [Gather]
+// collects every member's parameters and one-number answers into one
+// [Table] (CSV, NetCDF, a figure).
 //
 // # Sweep files
 //
@@ -40,23 +40,23 @@
 // # Members
 //
 // A member's directory is named from its index and its values
-// (Names: "003_injection_rate=1e-05,u1=16"). Its wave source's seed,
-// wavemaker.seed, is MemberSeed(seed, index), a SplitMix64 step of the
+// ([Names]: "003_injection_rate=1e-05,u1=16"). Its wave source's seed,
+// wavemaker.seed, is [MemberSeed](seed, index), a SplitMix64 step of the
 // sweep's seed and the member's index, unless the sweep sets
 // wavemaker.seed itself (in [fixed] for one noise realisation shared by
 // every member, or in a list for an ensemble).
 //
 // # Running
 //
-// Spec.Expand builds and validates the members; Prepare checks the sweep
+// [Spec.Expand] builds and validates the members; [Prepare] checks the sweep
 // directory and the members' initial states and records the sweep there
-// (RecordFile and CopyFile); Run.Execute runs the members that are not
+// ([RecordFile] and [CopyFile]); [Run.Execute] runs the members that are not
 // finished through package output (output.Prepare with Resume, then
-// output.Run.Execute), Options.Jobs at a time. Running the same sweep again
+// output.Run.Execute), [Options].Jobs at a time. Running the same sweep again
 // skips finished members and resumes interrupted ones from their
 // checkpoints; a sweep directory made by a different sweep is refused with
-// the keys and values that differ. A Shard selects every n-th member for
-// one process, such as a task of a Slurm job array (ParseShard). Members
+// the keys and values that differ. A [Shard] selects every n-th member for
+// one process, such as a task of a Slurm job array ([ParseShard]). Members
 // hold a lock while they run, so that two processes never run the same
 // member.
 package sweep
