@@ -102,7 +102,11 @@ func Prepare(c experiment.Config, o Options) (_ *Run, err error) {
 		if err := e.Restore(ck); err != nil {
 			return nil, fmt.Errorf("restart from %s: %w", restart, err)
 		}
-		if ck.Time >= c.Run.Days*86400 {
+		// A resumed run killed after its last checkpoint, while writing its
+		// files, only has them to write; an explicit restart at the end is
+		// a mistake in the run's length.
+		atEnd := e.Done()
+		if ck.Time > c.Run.Days*86400 || atEnd && !(o.Resume && o.Restart == "") {
 			return nil, fmt.Errorf("restart from %s: the checkpoint is at day %g, at or after the run's end (day %g); give a longer run", restart, ck.Time/86400, c.Run.Days)
 		}
 		r.resumed = ck
