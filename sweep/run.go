@@ -15,7 +15,6 @@ import (
 	"github.com/eddyblock/eddyblock/experiment"
 	"github.com/eddyblock/eddyblock/internal/settings"
 	"github.com/eddyblock/eddyblock/output"
-	"github.com/eddyblock/eddyblock/qg"
 )
 
 // Options says where a sweep runs and how.
@@ -319,13 +318,8 @@ func (r *Run) runMember(ctx context.Context, k int) {
 		return
 	}
 	c := r.config(m)
-	// A member killed after its last checkpoint (at its end) but before
-	// its files were written has nothing left to integrate: it starts
-	// again rather than being refused for ever.
-	ckpt := output.CheckpointIn(dir)
-	if ck, err := qg.LoadCheckpoint(ckpt); err == nil && ck.Time >= c.Run.Days*86400 {
-		os.Remove(ckpt)
-	}
+	// (A member killed after its last checkpoint, at its end, but before
+	// its files were written resumes from that checkpoint and writes them.)
 	os.Remove(filepath.Join(r.opt.Dir, m.Name+failedExt))
 	run, err := output.Prepare(c, output.Options{
 		Dir: dir, Resume: true, Plot: r.opt.Plot,
