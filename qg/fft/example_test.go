@@ -16,6 +16,7 @@ func Example() {
 		fmt.Println(err)
 		return
 	}
+	defer p.Close() // stops the plan's helper goroutine
 	f := make([]float64, nx*ny)
 	for y := 0; y < ny; y++ {
 		for x := 0; x < nx; x++ {

@@ -24,12 +24,16 @@ func randomField(nx, ny int, seed uint64) []float64 {
 	return f
 }
 
+// mustPlan makes a plan that is closed when the test ends (so that the
+// helper goroutines of one test do not linger into the next's goroutine
+// counts).
 func mustPlan(t testing.TB, nx, ny, workers int) *Plan2D {
 	t.Helper()
 	p, err := NewPlan2D(nx, ny, workers)
 	if err != nil {
 		t.Fatal(err)
 	}
+	t.Cleanup(p.Close)
 	return p
 }
 
