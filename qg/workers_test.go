@@ -5,9 +5,9 @@ import (
 	"runtime"
 	"slices"
 	"strings"
-	"sync"
-	"sync/atomic"
 	"testing"
+
+	"github.com/eddyblock/eddyblock/internal/testenv"
 )
 
 // TestWorkersBitIdentical checks that the state after a number of steps is
@@ -45,31 +45,6 @@ func TestWorkersBitIdentical(t *testing.T) {
 	}
 }
 
-// busy keeps n goroutines spinning until the returned function is called,
-// so that the model's goroutines compete for the threads. They yield every
-// microsecond or so: the scheduler then interleaves them with the model's
-// goroutines at random points instead of handing out whole 10 ms slices,
-// which shuffles the order of events more and keeps the test short.
-func busy(n int) (stop func()) {
-	var quit atomic.Bool
-	var wg sync.WaitGroup
-	for range n {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			x := 1.0
-			for !quit.Load() {
-				for range 1000 {
-					x = x*1.0000001 + 1e-9
-				}
-				runtime.Gosched()
-			}
-			_ = x
-		}()
-	}
-	return func() { quit.Store(true); wg.Wait() }
-}
-
 // TestWorkersBitIdenticalUnderLoad repeats short runs with 2 and 3 workers
 // while the threads are scarce — one thread for all goroutines, or two
 // threads shared with busy goroutines — and compares each final state and
@@ -99,7 +74,7 @@ func TestWorkersBitIdenticalUnderLoad(t *testing.T) {
 			prev := runtime.GOMAXPROCS(procs)
 			stop := func() {}
 			if procs > 1 {
-				stop = busy(2)
+				stop = testenv.Busy(2)
 			}
 			for _, workers := range []int{2, 3} {
 				for rep := range 8 {

@@ -4,38 +4,12 @@ import (
 	"math/rand/v2"
 	"runtime"
 	"strings"
-	"sync"
 	"sync/atomic"
 	"testing"
 	"time"
-)
 
-// load keeps n goroutines busy until the returned function is called, so
-// that the team's goroutines compete for the threads (common practice for
-// exposing scheduling-dependent hand-off bugs). They yield every
-// microsecond or so, so the scheduler interleaves them with the team's
-// goroutines at random points instead of in whole 10 ms slices.
-func load(n int) (stop func()) {
-	var quit atomic.Bool
-	var wg sync.WaitGroup
-	for range n {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			x := 1.0
-			for !quit.Load() {
-				for range 1000 {
-					x = x*1.0000001 + 1e-9
-				}
-				if x < 0 {
-					panic("unreachable")
-				}
-				runtime.Gosched()
-			}
-		}()
-	}
-	return func() { quit.Store(true); wg.Wait() }
-}
+	"github.com/eddyblock/eddyblock/internal/testenv"
+)
 
 // TestRunEveryWorkerEveryPass checks the hand-off's contract: after Run
 // returns, every worker has run that pass, exactly once, and no worker has
@@ -50,7 +24,7 @@ func TestRunEveryWorkerEveryPass(t *testing.T) {
 			// more, two busy goroutines take threads away at random.
 			stop := func() {}
 			if procs > 1 {
-				stop = load(2)
+				stop = testenv.Busy(2)
 			}
 			tm, err := New(n)
 			if err != nil {
@@ -91,7 +65,7 @@ func TestRunEveryWorkerEveryPass(t *testing.T) {
 // TestTasksEachOnce checks that Tasks runs every task exactly once, with
 // the worker index in range, under load.
 func TestTasksEachOnce(t *testing.T) {
-	stop := load(2)
+	stop := testenv.Busy(2)
 	defer stop()
 	tm, err := New(3)
 	if err != nil {

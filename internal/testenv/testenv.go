@@ -3,6 +3,9 @@ package testenv
 import (
 	"os"
 	"os/exec"
+	"runtime"
+	"sync"
+	"sync/atomic"
 	"testing"
 )
 
@@ -49,4 +52,29 @@ func File(t testing.TB, path, hint string) string {
 	}
 	t.Skipf("MISSING TOOL: %s does not exist (%s); skipped (with %s=1 this fails)", path, hint, FullVar)
 	return ""
+}
+
+// Busy keeps n goroutines computing until the returned function is called,
+// so that the goroutines under test compete for the threads (common
+// practice for exposing scheduling-dependent bugs). They yield every
+// microsecond or so, so the scheduler interleaves them with the others at
+// random points instead of handing out whole 10 ms time slices.
+func Busy(n int) (stop func()) {
+	var quit atomic.Bool
+	var wg sync.WaitGroup
+	for range n {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			x := 1.0
+			for !quit.Load() {
+				for range 1000 {
+					x = x*1.0000001 + 1e-9
+				}
+				runtime.Gosched()
+			}
+			_ = x
+		}()
+	}
+	return func() { quit.Store(true); wg.Wait() }
 }

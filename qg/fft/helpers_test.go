@@ -4,10 +4,10 @@ package fft
 
 import (
 	"runtime"
-	"sync"
-	"sync/atomic"
 	"testing"
 	"time"
+
+	"github.com/eddyblock/eddyblock/internal/testenv"
 )
 
 // TestCloseStopsHelpers: Close ends the helper goroutines of a plan at once.
@@ -69,12 +69,11 @@ func TestWorkersBitIdenticalUnderLoad(t *testing.T) {
 		prev := runtime.GOMAXPROCS(procs)
 		// With one thread the workers already compete for it; with two,
 		// busy goroutines take the threads away at random.
-		// (A busy goroutine keeps its thread for a whole 10 ms time slice,
-		// so the loaded case is repeated fewer times.)
-		stop, reps := func() {}, 200
+		stop := func() {}
 		if procs > 1 {
-			stop, reps = busy(2), 20
+			stop = testenv.Busy(2)
 		}
+		reps := 200
 		for _, workers := range []int{2, 3} {
 			p := mustPlan(t, nx, ny, workers)
 			c, g := make([]complex128, ny*w), make([]float64, nx*ny)
@@ -99,24 +98,4 @@ func TestWorkersBitIdenticalUnderLoad(t *testing.T) {
 		stop()
 		runtime.GOMAXPROCS(prev)
 	}
-}
-
-// busy keeps n goroutines spinning until the returned function is called.
-func busy(n int) (stop func()) {
-	var quit atomic.Bool
-	var wg sync.WaitGroup
-	for range n {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			x := 1.0
-			for !quit.Load() {
-				for range 1000 {
-					x = x*1.0000001 + 1e-9
-				}
-			}
-			_ = x
-		}()
-	}
-	return func() { quit.Store(true); wg.Wait() }
 }
