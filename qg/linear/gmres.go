@@ -25,7 +25,7 @@ func (l *Model) Solve(f [2][]complex128, o Options) (Response, error) {
 	if err := l.setForcing(f); err != nil {
 		return Response{}, err
 	}
-	s := newSpace(l)
+	s := newSpace(l, o.Span)
 	b, err := s.step(make([]float64, s.n))
 	if err != nil {
 		return Response{}, err
@@ -104,7 +104,7 @@ func (l *Model) Solve(f [2][]complex128, o Options) (Response, error) {
 		}
 		if ritz == nil {
 			ritz = ritzValues(H, k)
-			if g := growth(ritz, l.m.Config().Dt); g > 0 {
+			if g := growth(ritz, float64(s.span)*l.m.Config().Dt); g > 0 {
 				return Response{Iterations: iters}, &UnstableError{GrowthRate: g, Route: "gmres"}
 			}
 		}
@@ -184,11 +184,12 @@ type space struct {
 	l     *Model
 	index []int // retained spectral points
 	n     int   // 2 layers × 2 (real, imaginary) × len(index)
+	span  int   // time steps per application of the map
 }
 
-func newSpace(l *Model) *space {
+func newSpace(l *Model, span int) *space {
 	g := l.m.Grid()
-	s := &space{l: l}
+	s := &space{l: l, span: max(1, span)}
 	for p := range g.Len() {
 		if g.Keep(p) == 1 {
 			s.index = append(s.index, p)
@@ -221,13 +222,13 @@ func (s *space) pack(q [2][]complex128) []float64 {
 	return x
 }
 
-// step returns the state one forced time step after state x.
+// step returns the state span forced time steps after state x.
 func (s *space) step(x []float64) ([]float64, error) {
 	m := s.l.m
 	if err := m.SetSpectralPV(s.unpack(x)); err != nil {
 		return nil, err
 	}
-	if err := m.Step(); err != nil {
+	if err := m.Run(s.span); err != nil {
 		return nil, err
 	}
 	return s.pack(m.SpectralPV()), nil

@@ -96,6 +96,12 @@ type Options struct {
 	// Restart is the Krylov space's size before GMRES restarts (default
 	// 150).
 	Restart int
+	// Span is the number of time steps of the map whose fixed point Solve
+	// seeks (default 1). The steady state is the fixed point of any number
+	// of steps; over a longer span the fast, damped modes contract and the
+	// map's spectrum clusters away from the slow modes, which can take
+	// far fewer iterations (each costing Span steps).
+	Span int
 }
 
 func (o *Options) defaults() {

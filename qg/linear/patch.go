@@ -42,7 +42,23 @@ func checkPatch(g *qg.Grid, x, y, radius, amplitude float64) error {
 // 1 lower): a Gaussian patch amplitude·exp(−r²/radius²) centred at (x, y) m,
 // truncated to the modes the model retains.
 func (l *Model) PVPatch(x, y, radius, amplitude float64, layer int) ([2][]complex128, error) {
-	g := l.m.Grid()
+	return PVPatch(l.m, x, y, radius, amplitude, layer)
+}
+
+// HeatingPatch returns the steady PV forcing of a heating patch on this
+// model's grid (see the function HeatingPatch).
+func (l *Model) HeatingPatch(x, y, radius, heating float64) ([2][]complex128, error) {
+	return HeatingPatch(l.m, x, y, radius, heating)
+}
+
+// PVPatch returns a steady PV forcing (s⁻², spectral, in the layout of m's
+// grid) on one layer (0 upper, 1 lower): a Gaussian patch
+// amplitude·exp(−r²/radius²) centred at (x, y) m, truncated to the modes
+// the model retains. m may be any model of the grid: the linear model's
+// own (Model.Nonlinear) or a nonlinear run's, so that both are driven by
+// the same forcing. It uses m's transform, so m must not be stepping.
+func PVPatch(m *qg.Model, x, y, radius, amplitude float64, layer int) ([2][]complex128, error) {
+	g := m.Grid()
 	if err := checkPatch(g, x, y, radius, amplitude); err != nil {
 		return [2][]complex128{}, err
 	}
@@ -54,30 +70,31 @@ func (l *Model) PVPatch(x, y, radius, amplitude float64, layer int) ([2][]comple
 		f[i] *= amplitude
 	}
 	q := [2][]complex128{make([]complex128, g.Len()), make([]complex128, g.Len())}
-	if err := l.m.ToSpectral(q[layer], f); err != nil {
+	if err := m.ToSpectral(q[layer], f); err != nil {
 		return [2][]complex128{}, err
 	}
 	return q, nil
 }
 
-// HeatingPatch returns the steady PV forcing (s⁻², spectral) of a heating
-// of the air between the layers: a Gaussian patch of heating rate
-// heating·exp(−r²/radius²) (K day⁻¹) centred at (x, y) m. Heating raises
-// the thickness ψ1 − ψ2 at the rate τ̇ = heating/KelvinPerThickness, which
-// by the PV definitions (q1 ∋ F1(ψ2 − ψ1), q2 ∋ F2(ψ1 − ψ2)) is the PV
-// forcing −F1 τ̇ in the upper layer and +F2 τ̇ in the lower: cyclonic
-// below the heating and anticyclonic above it.
-func (l *Model) HeatingPatch(x, y, radius, heating float64) ([2][]complex128, error) {
-	g := l.m.Grid()
+// HeatingPatch returns the steady PV forcing (s⁻², spectral, in the layout
+// of m's grid) of a heating of the air between the layers: a Gaussian
+// patch of heating rate heating·exp(−r²/radius²) (K day⁻¹) centred at
+// (x, y) m. Heating raises the thickness ψ1 − ψ2 at the rate
+// τ̇ = heating/KelvinPerThickness, which by the PV definitions
+// (q1 ∋ F1(ψ2 − ψ1), q2 ∋ F2(ψ1 − ψ2)) is the PV forcing −F1 τ̇ in the
+// upper layer and +F2 τ̇ in the lower: cyclonic below the heating and
+// anticyclonic above it. As for PVPatch, m is any model of the grid.
+func HeatingPatch(m *qg.Model, x, y, radius, heating float64) ([2][]complex128, error) {
+	g := m.Grid()
 	if err := checkPatch(g, x, y, radius, heating); err != nil {
 		return [2][]complex128{}, err
 	}
-	cfg := l.m.Config()
-	ph := l.m.Physics()
+	cfg := m.Config()
+	ph := m.Physics()
 	tau := heating / 86400 / cfg.KelvinPerThickness() // m² s⁻² per unit shape
 	f := gaussian(g, x, y, radius)
 	q := [2][]complex128{make([]complex128, g.Len()), make([]complex128, g.Len())}
-	if err := l.m.ToSpectral(q[0], f); err != nil {
+	if err := m.ToSpectral(q[0], f); err != nil {
 		return [2][]complex128{}, err
 	}
 	copy(q[1], q[0])
