@@ -192,6 +192,7 @@ type Result struct {
 
 	grid *qg.Grid
 	ph   qg.Physics
+	inv  *qg.Inverter
 }
 
 // Response is a response field as PV (s⁻¹) and streamfunction (m² s⁻¹),
@@ -259,10 +260,11 @@ func clamp(x float64) float64 { return math.Max(-1, math.Min(1, x)) }
 //
 // Everything that can be checked before the runs is checked first (the
 // configuration, both runs' initial states, the anomaly, the linear
-// model). An unstable time-mean state is found only after the runs: the
-// error is then the linear model's *linear.UnstableError, wrapped, and the
-// partial Result (the runs' mean-state forcings and (a)) is returned with
-// it.
+// model). An unstable time-mean state is found only once the control run
+// is done: then the error is the linear model's *linear.UnstableError,
+// wrapped, and the partial Result is returned with it (the control's
+// mean-state forcing, and the anomaly run's and (a) unless o.Sequential,
+// which stops before the anomaly run).
 func Run(ctx context.Context, c Config, o Options) (*Result, error) {
 	if err := c.Validate(); err != nil {
 		return nil, err
@@ -320,11 +322,40 @@ func Run(ctx context.Context, c Config, o Options) (*Result, error) {
 		}
 		return nil
 	}
+	r := &Result{Config: c, Forcing: f, grid: es[0].Model.Grid(), ph: es[0].Model.Physics(), inv: es[0].Model.Inverter()}
+	var solved [3]linear.Response
+	var serrs [3]error
+	var forcings [3][2][]complex128
+	forcings[0] = f
+	what := [3]string{"the anomaly", "the anomaly plus the change in eddy forcing", "the anomaly plus the changes in eddy forcing and residual"}
+	// solve finds the linear response k about the control's time mean,
+	// with a linear model of its own
+	solve := func(k int) {
+		l, err := AboutMean(r.Control)
+		if err != nil {
+			serrs[k] = fmt.Errorf("attribution: linear model about the control's time mean: %w", err)
+			return
+		}
+		defer l.Close()
+		if solved[k], err = l.Respond(forcings[k], c.Linear); err != nil {
+			serrs[k] = fmt.Errorf("attribution: linear response to %s about the control's time mean: %w", what[k], err)
+		}
+	}
 	if o.Sequential {
-		for i := range es {
-			if err := run(ctx, i); err != nil {
-				return nil, err
-			}
+		// the control first, and the linear response (b) about its time
+		// mean at once: an unstable mean state stops the experiment
+		// before the second run
+		if err := run(ctx, 0); err != nil {
+			return nil, err
+		}
+		if r.Control, err = recs[0].MeanForcing(); err != nil {
+			return nil, fmt.Errorf("control run: %w", err)
+		}
+		if solve(0); serrs[0] != nil {
+			return r, serrs[0]
+		}
+		if err := run(ctx, 1); err != nil {
+			return nil, err
 		}
 	} else {
 		ctx2, cancel := context.WithCancel(ctx)
@@ -347,16 +378,14 @@ func Run(ctx context.Context, c Config, o Options) (*Result, error) {
 		if err := errors.Join(errs[0], errs[1]); err != nil {
 			return nil, err
 		}
-	}
-
-	r := &Result{Config: c, Forcing: f, grid: es[0].Model.Grid(), ph: es[0].Model.Physics()}
-	if r.Control, err = recs[0].MeanForcing(); err != nil {
-		return nil, fmt.Errorf("control run: %w", err)
+		if r.Control, err = recs[0].MeanForcing(); err != nil {
+			return nil, fmt.Errorf("control run: %w", err)
+		}
 	}
 	if r.Perturbed, err = recs[1].MeanForcing(); err != nil {
-		return nil, fmt.Errorf("anomaly run: %w", err)
+		return r, fmt.Errorf("anomaly run: %w", err)
 	}
-	inv := es[0].Model.Inverter()
+	inv := r.inv
 	response := func(psi [2][]complex128) Response {
 		q := pair(ns)
 		inv.PV(q, psi)
@@ -384,42 +413,29 @@ func Run(ctx context.Context, c Config, o Options) (*Result, error) {
 	}
 	r.Noise.Halves = Compare(r.grid, r.ph, f0, r.Halves[0], r.Halves[1])
 
-	// the three linear solves, at the same time unless Sequential, each
-	// with its own linear model about the control's time mean
-	forcings := [3][2][]complex128{f, add(f, r.EddyChange), add(add(f, r.EddyChange), r.ResidualChange)}
-	what := [3]string{"the anomaly", "the anomaly plus the change in eddy forcing", "the anomaly plus the changes in eddy forcing and residual"}
-	var solved [3]linear.Response
-	var errs [3]error
-	solve := func(k int) {
-		l, err := AboutMean(r.Control)
-		if err != nil {
-			errs[k] = fmt.Errorf("attribution: linear model about the control's time mean: %w", err)
-			return
-		}
-		defer l.Close()
-		if solved[k], err = l.Respond(forcings[k], c.Linear); err != nil {
-			errs[k] = fmt.Errorf("attribution: linear response to %s about the control's time mean: %w", what[k], err)
-		}
-	}
+	forcings[1] = add(f, r.EddyChange)
+	forcings[2] = add(forcings[1], r.ResidualChange)
 	if o.Sequential {
-		for k := range 3 {
-			if solve(k); errs[k] != nil {
-				return r, errs[k]
+		for k := 1; k < 3; k++ {
+			if solve(k); serrs[k] != nil {
+				return r, serrs[k]
 			}
 		}
 	} else {
-		// (b) and (c) first, on two goroutines, then the closure check
+		// (b) and (c) on two goroutines, then the closure check
 		var wg sync.WaitGroup
 		for k := range 2 {
 			wg.Add(1)
 			go func() { defer wg.Done(); solve(k) }()
 		}
 		wg.Wait()
-		if err := errors.Join(errs[0], errs[1]); err != nil {
-			return r, err
+		for k := range 2 {
+			if serrs[k] != nil {
+				return r, serrs[k] // the first: an unstable state fails both alike
+			}
 		}
-		if solve(2); errs[2] != nil {
-			return r, errs[2]
+		if solve(2); serrs[2] != nil {
+			return r, serrs[2]
 		}
 	}
 	r.Solves = solved

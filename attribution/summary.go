@@ -88,13 +88,13 @@ func (s Summary) String() string {
 	fmt.Fprintf(&b, "mean-state forcing, residual ‖H − F̄ − C̄‖/‖H‖ (PV / streamfunction tendency): control %.3f / %.3f, anomaly %.3f / %.3f\n",
 		s.ResidualRatio[ControlRun][0], s.ResidualRatio[ControlRun][1], s.ResidualRatio[AnomalyRun][0], s.ResidualRatio[AnomalyRun][1])
 	fmt.Fprintf(&b, "response (a), nonlinear: RMS height %.2f m (both layers, mass-weighted)\n", s.Response)
-	fmt.Fprintf(&b, "                                  pattern corr.  RMS diff. (m)  | PV: corr.  RMS diff./RMS(a)\n")
+	fmt.Fprintf(&b, "                                        pattern corr.  RMS diff. (m)  | PV: corr.  RMS diff./RMS(a)\n")
 	row := func(name string, sc Score) {
-		fmt.Fprintf(&b, "  %-32s %8.3f %14.2f   | %9.3f %10.3f\n", name, sc.Correlation, sc.RMS, sc.CorrelationPV, sc.RMSPV/s.Noise.ResponsePV)
+		fmt.Fprintf(&b, "  %-38s %8.3f %14.2f   | %9.3f %10.3f\n", name, sc.Correlation, sc.RMS, sc.CorrelationPV, sc.RMSPV/s.Noise.ResponsePV)
 	}
 	row("(b) linear, anomaly alone", s.Linear)
-	row("(c) linear, anomaly + ΔC̄", s.LinearEddy)
-	row("closure: anomaly + ΔC̄ + ΔR", s.Closure)
+	row("(c) linear, anomaly + Δ eddy forcing", s.LinearEddy)
+	row("closure: (c)'s forcing + Δ residual", s.Closure)
 	row("(a) first half vs second half", s.Noise.Halves)
 	fmt.Fprintf(&b, "sampling noise of (a), from %d segments: %.2f m RMS height (%.3f of the PV response's RMS)\n",
 		s.Noise.Segments, s.Noise.RMS, s.Noise.RMSPV/s.Noise.ResponsePV)
@@ -117,6 +117,8 @@ func (s Summary) String() string {
 //	height_first_half n, height_second_half n   (a) from each half of the window
 //	height_noise n                       half the difference of the halves
 //	forcing_anomaly n                    the anomaly f, s⁻²
+//	height_tendency_anomaly n            its height tendency f0 ψt/g, m day⁻¹
+//	height_tendency_eddy_change n        that of ΔC̄, m day⁻¹
 //	eddy_forcing_change n                ΔC̄, s⁻²
 //	residual_change n                    ΔR, s⁻²
 //	psi_basic n                          the control's time-mean streamfunction, m² s⁻¹
@@ -153,6 +155,8 @@ func (r *Result) Fields() (diag.Fields, error) {
 		{"q_linear", "(b) linear PV response to the forcing anomaly", "s-1", noMean(r.Linear.Q)},
 		{"q_linear_eddy", "(c) linear PV response to the anomaly plus the change in eddy forcing", "s-1", noMean(r.LinearEddy.Q)},
 		{"forcing_anomaly", "steady PV forcing anomaly", "s-2", r.Forcing},
+		{"height_tendency_anomaly", "height tendency f0 psi_t/g of the forcing anomaly", "m day-1", scaled(invert(r.inv, r.Forcing), zc*86400)},
+		{"height_tendency_eddy_change", "height tendency f0 psi_t/g of the change in eddy forcing", "m day-1", scaled(invert(r.inv, r.EddyChange), zc*86400)},
 		{"eddy_forcing_change", "change in time-mean eddy PV flux convergence, anomaly run minus control", "s-2", r.EddyChange},
 		{"residual_change", "change in the residual of the mean-state forcing, anomaly run minus control", "s-2", r.ResidualChange},
 		{"psi_basic", "control run's time-mean streamfunction (the linear model's basic state)", "m2 s-1", r.Control.Psi},
