@@ -236,7 +236,9 @@ func plotAttribution(figs string, r *attribution.Result, f diag.Fields) error {
 		title string
 		get   func() (figure.Field, error)
 	}
-	one := func(name string) func() (figure.Field, error) { return func() (figure.Field, error) { return field(name) } }
+	one := func(name string) func() (figure.Field, error) {
+		return func() (figure.Field, error) { return field(name) }
+	}
 	for _, fig := range []struct {
 		name, title, units string
 		panels             []panel
