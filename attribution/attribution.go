@@ -183,6 +183,8 @@ type Result struct {
 	// (the quadratic term of the advection): a check of the whole chain.
 	Nonlinear, Linear, LinearEddy, Closure Response
 	Halves                                 [2]Response
+	// HalfSamples is the number of samples of each half.
+	HalfSamples [2]int
 	// Scores of (b), (c) and the closure against (a), and the sampling
 	// noise of (a).
 	ScoreLinear, ScoreLinearEddy, ScoreClosure Score
@@ -399,17 +401,11 @@ func Run(ctx context.Context, c Config, o Options) (*Result, error) {
 	sc, sa := recs[0].Segments(), recs[1].Segments()
 	f0 := c.Model.F0
 	r.Noise = sampling(r.grid, r.ph, f0, inv, sc, sa, r.Nonlinear)
+	hc, nc := recs[0].Halves()
+	ha, _ := recs[1].Halves()
+	r.HalfSamples = nc
 	for k := range 2 {
-		h := pair(ns)
-		for i := k * len(sc) / 2; i < (k+1)*len(sc)/2; i++ {
-			h = add(h, sub(sa[i], sc[i]))
-		}
-		for n := range 2 {
-			for p := range h[n] {
-				h[n][p] /= complex(float64(len(sc)/2), 0)
-			}
-		}
-		r.Halves[k] = response(h)
+		r.Halves[k] = response(sub(ha[k], hc[k]))
 	}
 	r.Noise.Halves = Compare(r.grid, r.ph, f0, r.Halves[0], r.Halves[1])
 

@@ -148,3 +148,27 @@ func (r *Recorder) Segments() [][2][]complex128 {
 	}
 	return out
 }
+
+// Halves returns the time-mean streamfunction (spectral, m² s⁻¹) of the
+// samples of the first and of the second half of the segments, and the
+// number of samples in each.
+func (r *Recorder) Halves() ([2][2][]complex128, [2]int) {
+	var out [2][2][]complex128
+	var count [2]int
+	k := len(r.seg)
+	for h := range 2 {
+		out[h] = pair(len(r.seg[0][0]))
+		for i := h * k / 2; i < (h+1)*k/2; i++ {
+			out[h] = add(out[h], r.seg[i])
+			count[h] += r.count[i]
+		}
+		w := complex(1/float64(max(1, count[h])), 0)
+		for n := range 2 {
+			for p := range out[h][n] {
+				out[h][n][p] *= w
+			}
+			out[h][n][0] = 0
+		}
+	}
+	return out, count
+}
