@@ -305,3 +305,69 @@ func TestUnstableBasicStateStops(t *testing.T) {
 		t.Logf("gmres: %v (fastest Phillips mode %.4g day⁻¹)", err, smax*86400)
 	}
 }
+
+// TestSolveOverSpan checks GMRES on the fixed point of several time steps
+// (Options.Span): against the same closed-form steady response of the
+// linearised two-layer QG equations as TestSteadyResponseMatchesClosedForm,
+// to 1e-8 relative, and, about a non-uniform basic state with a sponge and
+// a filter (TestResponseIsLinear's), against the one-step route (common
+// practice: the steady state is the fixed point of any number of steps).
+func TestSolveOverSpan(t *testing.T) {
+	c := uniformConfig(10, 10)
+	c.Drag = 1 / (2 * 86400.0)
+	l, err := New(c, [2][]float64{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer l.Close()
+	g := l.Grid()
+	i, j := 3, 2
+	f := cosForcing(t, l, i, j, [2]float64{1e-11, -4e-12}, [2]float64{0.3, 1.1})
+	p := j*g.Nkx + i
+	want := closedForm(c, g.K(i), g.L(j), [2]complex128{f[0][p], f[1][p]})
+	r, err := l.Solve(f, Options{Tol: 1e-12, Span: 24})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for n := range 2 {
+		if e := cmplx.Abs(r.Q[n][p]-want[n]) / cmplx.Abs(want[n]); e > 1e-8 {
+			t.Errorf("layer %d: response %v, closed form %v (relative error %.2g)", n+1, r.Q[n][p], want[n], e)
+		}
+	}
+
+	c = uniformConfig(8, 8)
+	c.Drag = 1 / 86400.0
+	c.Sponge = qg.Sponge{Rate: 2 / 86400.0, Width: 4e6, X: 1.4e7}
+	c.ScaleSelective = qg.ScaleSelective{Kind: qg.CutoffFilter, FilterTime: 6 * 3600, FilterCutoff: 0.65, FilterOrder: 4}
+	basic := [2][]float64{make([]float64, g.Points()), make([]float64, g.Points())}
+	for y := range g.Ny {
+		for x := range g.Nx {
+			dx := qg.PeriodicDistance(g.X(x), 8e6, g.Lx) / 1e6
+			dyh := qg.PeriodicDistance(g.Y(y), 5e6, g.Ly) / 1e6
+			dyl := qg.PeriodicDistance(g.Y(y), 3e6, g.Ly) / 1e6
+			v := 3e6 * (math.Exp(-dx*dx-dyh*dyh) - math.Exp(-dx*dx-dyl*dyl))
+			basic[0][y*g.Nx+x], basic[1][y*g.Nx+x] = v, 0.6*v
+		}
+	}
+	b, err := New(c, basic)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer b.Close()
+	h, err := b.HeatingPatch(6e6, 5e6, 1e6, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var q [2][2][]complex128
+	for k, span := range []int{1, 24} {
+		r, err := b.Solve(h, Options{Tol: 1e-11, Span: span})
+		if err != nil {
+			t.Fatalf("span %d: %v", span, err)
+		}
+		q[k] = r.Q
+		t.Logf("span %d: %d iterations, %d steps", span, r.Iterations, r.Iterations*span)
+	}
+	if d, s := diffNorm(q[1], q[0]); d > 1e-8*s {
+		t.Errorf("the response over a span of 24 steps differs from the one-step route by %.2g relative", d/s)
+	}
+}
