@@ -217,7 +217,7 @@ print(json.dumps({
 		t.Fatalf("python: %v\n%s", err, out)
 	}
 	var got struct {
-		B, C, H, Corr   float64
+		B, C, H, Corr  float64
 		Units, Caution string
 	}
 	if err := json.Unmarshal(out, &got); err != nil {
