@@ -82,6 +82,7 @@ func TestExamplesRun(t *testing.T) {
 		dir  string
 		want []string
 	}{
+		{"attribution", []string{"(b) linear, anomaly alone", "(c) linear, anomaly + Δ eddy forcing"}},
 		{"driver", []string{"day 10: upper-layer height peaks at +"}},
 		{"heating", []string{"at the heating patch:", "response"}},
 		{"spinup", []string{"day  10", "day 100"}},
