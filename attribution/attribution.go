@@ -21,8 +21,8 @@ import (
 // Config is an attribution experiment: the control run (a whole
 // experiment configuration, whose keys it shares at the top level of a
 // configuration file), the forcing anomaly added to it in the second run
-// (the [anomaly] table) and the bounds of the linear solves (the [linear]
-// table).
+// (the anomaly table), the bounds of the linear solves (the linear table)
+// and the estimate of the sampling noise (the sampling table).
 type Config struct {
 	experiment.Config
 	Anomaly  Anomaly       `toml:"anomaly" json:"anomaly"`
@@ -258,7 +258,8 @@ func clamp(x float64) float64 { return math.Max(-1, math.Min(1, x)) }
 // means and of their time-mean eddy forcing; (b) the linear response to the
 // anomaly about the control's time mean; (c) the linear response to the
 // anomaly plus the change in eddy forcing; the scores of (b) and (c)
-// against (a) and the sampling noise of (a) from the halves of the runs.
+// against (a) and the sampling noise of (a) from segments of the runs'
+// averaging windows.
 //
 // Everything that can be checked before the runs is checked first (the
 // configuration, both runs' initial states, the anomaly, the linear
