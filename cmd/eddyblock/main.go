@@ -36,6 +36,9 @@ const usage = `usage:
   eddyblock sweep -file sweep.toml -out DIR [-jobs N] [-shard i/n|auto]
                                 run an experiment once per member of a sweep, resumably (eddyblock sweep -h)
   eddyblock gather DIR          one table (CSV, NetCDF) and a figure of a sweep's answers (eddyblock gather -h)
+  eddyblock attribute [-config file.toml] [-out DIR [-plot]] [-print-config] [-forcing RUNDIR]
+                                the attribution experiment: is a forced response the mean flow's or the eddies'?
+                                (eddyblock attribute -h)
   eddyblock plot [-to DIR] RUNDIR
                                 draw the figures of a run from its NetCDF files
   eddyblock serve [-port N]     build the browser demo and serve it on 127.0.0.1 (eddyblock serve -h)
@@ -55,6 +58,8 @@ func run(args []string, stdout, stderr io.Writer) error {
 		return cmdSweep(args[1:], stdout, stderr)
 	case "gather":
 		return cmdGather(args[1:], stdout, stderr)
+	case "attribute":
+		return cmdAttribute(args[1:], stdout, stderr)
 	case "plot":
 		return cmdPlot(args[1:], stdout, stderr)
 	case "serve":
