@@ -103,7 +103,7 @@ func TestWorkersBitIdenticalUnderLoad(t *testing.T) {
 // TestCloseStopsGoroutines checks that a model's goroutines end with Close
 // and that a closed model refuses to step.
 func TestCloseStopsGoroutines(t *testing.T) {
-	before := runtime.NumGoroutine()
+	before := testenv.Baseline()
 	for _, w := range []int{1, 2, 3, 4} {
 		m := benchModel(t, 32, w, RK4)
 		if err := m.Run(2); err != nil {
@@ -115,7 +115,7 @@ func TestCloseStopsGoroutines(t *testing.T) {
 			t.Errorf("%d workers: Step after Close gave %v, want an error saying the model is closed", w, err)
 		}
 	}
-	if n := runtime.NumGoroutine(); n > before {
+	if n := testenv.Goroutines(before); n > before {
 		t.Errorf("%d goroutines left after Close", n-before)
 	}
 }

@@ -7,6 +7,7 @@ import (
 	"sync"
 	"sync/atomic"
 	"testing"
+	"time"
 )
 
 // FullVar is the environment variable that asks for the complete suite.
@@ -77,4 +78,37 @@ func Busy(n int) (stop func()) {
 		}()
 	}
 	return func() { quit.Store(true); wg.Wait() }
+}
+
+// Goroutines returns the number of goroutines once it has fallen to at
+// most limit, or the number after a few seconds if it does not. A
+// goroutine that has signalled its owner (a sync.WaitGroup's Done, say)
+// still counts until it has returned, and the runtime's finalizer
+// goroutine counts while it runs a finalizer, so a count taken at once
+// after a Close can be one too many for a moment; waiting for it to
+// settle keeps the check meaningful (a goroutine that never ends still
+// fails it) without failing on a loaded machine.
+func Goroutines(limit int) int {
+	deadline := time.Now().Add(5 * time.Second)
+	n := runtime.NumGoroutine()
+	for n > limit && time.Now().Before(deadline) {
+		time.Sleep(5 * time.Millisecond)
+		n = runtime.NumGoroutine()
+	}
+	return n
+}
+
+// Baseline returns the number of goroutines once it has stopped changing
+// for 50 ms (or after a few seconds), so that goroutines of an earlier
+// test that are still ending are not counted as part of the baseline.
+func Baseline() int {
+	deadline := time.Now().Add(5 * time.Second)
+	n, since := runtime.NumGoroutine(), time.Now()
+	for time.Since(since) < 50*time.Millisecond && time.Now().Before(deadline) {
+		time.Sleep(5 * time.Millisecond)
+		if m := runtime.NumGoroutine(); m != n {
+			n, since = m, time.Now()
+		}
+	}
+	return n
 }
