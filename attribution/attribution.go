@@ -8,7 +8,6 @@ import (
 	"io"
 	"math"
 	"os"
-	"strings"
 	"sync"
 
 	"github.com/BurntSushi/toml"
@@ -96,11 +95,7 @@ func (c Config) TOML() string {
 func (c Config) ExtraTOML() string {
 	var b bytes.Buffer
 	enc := toml.NewEncoder(&b)
-	if err := enc.Encode(struct {
-		Anomaly  Anomaly       `toml:"anomaly"`
-		Linear   LinearOptions `toml:"linear"`
-		Sampling Sampling      `toml:"sampling"`
-	}{c.Anomaly, c.Linear, c.Sampling}); err != nil {
+	if err := enc.Encode(tables{c.Anomaly, c.Linear, c.Sampling}); err != nil {
 		panic(err) // plain numbers and strings
 	}
 	return b.String()
@@ -110,22 +105,24 @@ func (c Config) ExtraTOML() string {
 // keep base's values) and validates it. A key it does not know is an error
 // naming it.
 func Decode(r io.Reader, base Config) (Config, error) {
-	c := base
-	md, err := toml.NewDecoder(r).Decode(&c)
+	t := tables{base.Anomaly, base.Linear, base.Sampling}
+	ec, err := experiment.DecodeWith(r, base.Config, &t)
 	if err != nil {
-		return Config{}, fmt.Errorf("config: %w", err)
+		return Config{}, err
 	}
-	if und := md.Undecoded(); len(und) > 0 {
-		keys := make([]string, len(und))
-		for i, k := range und {
-			keys[i] = k.String()
-		}
-		return Config{}, fmt.Errorf("config: unknown key %s", strings.Join(keys, ", "))
-	}
+	c := Config{Config: ec, Anomaly: t.Anomaly, Linear: t.Linear, Sampling: t.Sampling}
 	if err := c.Validate(); err != nil {
 		return Config{}, err
 	}
 	return c, nil
+}
+
+// tables are the attribution experiment's own tables of a configuration
+// file.
+type tables struct {
+	Anomaly  Anomaly       `toml:"anomaly"`
+	Linear   LinearOptions `toml:"linear"`
+	Sampling Sampling      `toml:"sampling"`
 }
 
 // Load reads a TOML configuration file on top of the built-in attribution

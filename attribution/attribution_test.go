@@ -4,12 +4,14 @@ import (
 	"context"
 	"errors"
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/eddyblock/eddyblock/experiment"
 	"github.com/eddyblock/eddyblock/internal/testenv"
 	"github.com/eddyblock/eddyblock/qg"
 	"github.com/eddyblock/eddyblock/qg/linear"
+	"github.com/eddyblock/eddyblock/wavemaker"
 )
 
 // TestAnomalyValidate checks that each bad anomaly is refused with the key
@@ -202,5 +204,55 @@ func TestBuiltinAttribution(t *testing.T) {
 	}
 	if s.Closure.Correlation < 0.99 {
 		t.Errorf("closure check: pattern correlation %.4f with (a), want above 0.99", s.Closure.Correlation)
+	}
+}
+
+// TestDecode checks a configuration file that mixes the experiment's keys
+// with the attribution tables: both parts are read, a key neither knows is
+// refused by name, and an array of patches replaces the base's as a whole
+// without changing the base (common practice for TOML overlays: an array
+// of tables in the document is the whole array).
+func TestDecode(t *testing.T) {
+	base := Builtin()
+	c, err := Decode(strings.NewReader("[model]\nu1 = 20.0\n[anomaly]\namplitude = 2.0\n[sampling]\nsegments = 6\n"), base)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if c.Model.U1 != 20 || c.Anomaly.Amplitude != 2 || c.Sampling.Segments != 6 {
+		t.Errorf("decoded u1 %g, amplitude %g, segments %d; want 20, 2, 6", c.Model.U1, c.Anomaly.Amplitude, c.Sampling.Segments)
+	}
+	if c.Anomaly.Radius != base.Anomaly.Radius || c.Model.U2 != base.Model.U2 {
+		t.Error("keys the file leaves out did not keep the base's values")
+	}
+	for _, tc := range []struct{ doc, want string }{
+		{"[anomaly]\nradiuss = 1.0e6\n", "anomaly.radiuss"},
+		{"[modle]\nnx = 64\n", "modle"},
+		{"[model]\nnx = 64\nshear = 3.0\n", "model.shear"},
+		{"[sampling]\nsegments = 3\n", "sampling.segments"},
+		{"[model]\nu1 = \"fast\"\n", "u1"},
+	} {
+		if _, err := Decode(strings.NewReader(tc.doc), base); err == nil || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%q: error %v, want one naming %s", tc.doc, err, tc.want)
+		}
+	}
+
+	base.Wavemaker.Mask = wavemaker.MaskConfig{Kind: wavemaker.Patches, Patches: []wavemaker.PatchConfig{
+		{X: 8e6, Y: 4e6, WidthX: 1e6, WidthY: 1e6},
+		{X: 8e6, Y: 6e6, WidthX: 1e6, WidthY: 1e6},
+	}}
+	before := base.Wavemaker.Mask.Patches[0]
+	doc := "[[wavemaker.mask.patches]]\nx = 7.0e6\ny = 5.0e6\nwidth_x = 1.0e6\n"
+	if _, err := Decode(strings.NewReader(doc), base); err == nil {
+		t.Error("a patch without width_y was accepted (it would have inherited the base's)")
+	}
+	c, err = Decode(strings.NewReader(doc+"width_y = 2.0e6\n"), base)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if p := c.Wavemaker.Mask.Patches; len(p) != 1 || p[0].X != 7e6 || p[0].WidthY != 2e6 {
+		t.Errorf("decoded patches %+v, want the file's one patch", p)
+	}
+	if len(base.Wavemaker.Mask.Patches) != 2 || base.Wavemaker.Mask.Patches[0] != before {
+		t.Error("Decode changed the base's patches")
 	}
 }

@@ -119,6 +119,17 @@ func prefix(p string, err error) error {
 // keep base's values) and validates the result. A key the configuration
 // does not know is an error naming it.
 func Decode(r io.Reader, base Config) (Config, error) {
+	return DecodeWith(r, base, nil)
+}
+
+// DecodeWith is Decode for a configuration file that a driver extends with
+// tables of its own beside the experiment's: the keys a Config has are
+// decoded on top of base, and the document is decoded a second time into
+// extra (a pointer to a struct of the driver's tables, holding their
+// defaults), so that a key neither knows is an error naming it. extra may
+// be nil. Only the experiment's part is validated here; extra's is the
+// driver's to check.
+func DecodeWith(r io.Reader, base Config, extra any) (Config, error) {
 	doc, err := io.ReadAll(r)
 	if err != nil {
 		return Config{}, fmt.Errorf("config: %w", err)
@@ -142,9 +153,32 @@ func Decode(r io.Reader, base Config) (Config, error) {
 	if err != nil {
 		return Config{}, fmt.Errorf("config: %w", err)
 	}
-	if und := md.Undecoded(); len(und) > 0 {
-		keys := make([]string, len(und))
-		for i, k := range und {
+	unknown := md.Undecoded()
+	if extra != nil && len(unknown) > 0 {
+		emd, err := toml.NewDecoder(bytes.NewReader(doc)).Decode(extra)
+		if err != nil {
+			return Config{}, fmt.Errorf("config: %w", err)
+		}
+		known := make(map[string]bool)
+		for _, k := range emd.Keys() {
+			if emd.IsDefined(k...) {
+				known[k.String()] = true
+			}
+		}
+		for _, k := range emd.Undecoded() {
+			delete(known, k.String())
+		}
+		kept := unknown[:0]
+		for _, k := range unknown {
+			if !known[k.String()] {
+				kept = append(kept, k)
+			}
+		}
+		unknown = kept
+	}
+	if len(unknown) > 0 {
+		keys := make([]string, len(unknown))
+		for i, k := range unknown {
 			keys[i] = k.String()
 		}
 		return Config{}, fmt.Errorf("config: unknown key %s", strings.Join(keys, ", "))

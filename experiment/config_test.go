@@ -112,3 +112,38 @@ func TestDecodeLeavesBaseAlone(t *testing.T) {
 		t.Errorf("a negative seed: %v, want an error naming wavemaker.seed", err)
 	}
 }
+
+// TestDecodeWith checks a file that adds a driver's own table to an
+// experiment's: the experiment's keys land in the Config, the driver's in
+// its struct with its defaults kept, and a key neither knows is refused by
+// name (common practice: an unknown key is an error, not ignored).
+func TestDecodeWith(t *testing.T) {
+	type mine struct {
+		Probe struct {
+			X     float64 `toml:"x"`
+			Label string  `toml:"label"`
+		} `toml:"probe"`
+	}
+	var m mine
+	m.Probe.Label = "default"
+	c, err := DecodeWith(strings.NewReader("[model]\nu1 = 30.0\n[probe]\nx = 4.0e6\n"), Default(), &m)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if c.Model.U1 != 30 || m.Probe.X != 4e6 || m.Probe.Label != "default" {
+		t.Errorf("u1 %g, probe %+v; want 30 and {4e6 default}", c.Model.U1, m.Probe)
+	}
+	for _, tc := range []struct{ doc, want string }{
+		{"[probe]\ny = 1.0\n", "probe.y"},
+		{"[model]\nnxx = 64\n", "model.nxx"},
+		{"[probes]\nx = 1.0\n", "probes"},
+	} {
+		var m mine
+		if _, err := DecodeWith(strings.NewReader(tc.doc), Default(), &m); err == nil || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%q: error %v, want one naming %s", tc.doc, err, tc.want)
+		}
+	}
+	if _, err := DecodeWith(strings.NewReader("[probe]\nx = 1.0\n"), Default(), nil); err == nil || !strings.Contains(err.Error(), "probe") {
+		t.Errorf("a driver's table with no struct for it: %v, want an error naming probe", err)
+	}
+}
