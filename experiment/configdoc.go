@@ -2,12 +2,12 @@ package experiment
 
 import (
 	"fmt"
-	"math"
 	"reflect"
 	"strconv"
 	"strings"
 	"unicode/utf8"
 
+	"github.com/eddyblock/eddyblock/internal/tomltext"
 	"github.com/eddyblock/eddyblock/qg"
 	"github.com/eddyblock/eddyblock/qg/block"
 	"github.com/eddyblock/eddyblock/wavemaker"
@@ -334,7 +334,7 @@ const commentWidth = 100
 // read back to the same value.
 func (c Config) Documented() string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "# eddyblock configuration of the experiment %s.\n", tomlString(c.Name))
+	fmt.Fprintf(&b, "# eddyblock configuration of the experiment %s.\n", tomltext.String(c.Name))
 	b.WriteString("# Every key is optional in a file: a missing key keeps the built-in default.\n")
 	b.WriteString("# Tables and keys that the choices below do not use are left out.\n")
 	b.WriteString("# " + caution + "\n\n")
@@ -457,7 +457,7 @@ func wrap(s string, width int) []string {
 func tomlValue(v reflect.Value) string {
 	switch v.Kind() {
 	case reflect.String:
-		return tomlString(v.String())
+		return tomltext.String(v.String())
 	case reflect.Bool:
 		return strconv.FormatBool(v.Bool())
 	case reflect.Int, reflect.Int8, reflect.Int16, reflect.Int32, reflect.Int64:
@@ -465,52 +465,7 @@ func tomlValue(v reflect.Value) string {
 	case reflect.Uint, reflect.Uint8, reflect.Uint16, reflect.Uint32, reflect.Uint64:
 		return strconv.FormatUint(v.Uint(), 10)
 	case reflect.Float32, reflect.Float64:
-		return tomlFloat(v.Float())
+		return tomltext.Float(v.Float())
 	}
 	panic(fmt.Sprintf("experiment: no TOML form for a configuration value of kind %s", v.Kind()))
-}
-
-// tomlFloat writes f exactly: the fewest digits that read back to the same
-// float64 (strconv's 'g' format), with ".0" added where TOML needs a
-// fraction or an exponent to read a float.
-func tomlFloat(f float64) string {
-	switch {
-	case math.IsNaN(f):
-		return "nan"
-	case math.IsInf(f, 1):
-		return "inf"
-	case math.IsInf(f, -1):
-		return "-inf"
-	}
-	s := strconv.FormatFloat(f, 'g', -1, 64)
-	if !strings.ContainsAny(s, ".e") {
-		s += ".0"
-	}
-	return s
-}
-
-// tomlString writes s as a TOML basic string.
-func tomlString(s string) string {
-	var b strings.Builder
-	b.WriteByte('"')
-	for _, r := range s {
-		switch {
-		case r == '"':
-			b.WriteString(`\"`)
-		case r == '\\':
-			b.WriteString(`\\`)
-		case r == '\n':
-			b.WriteString(`\n`)
-		case r == '\t':
-			b.WriteString(`\t`)
-		case r == '\r':
-			b.WriteString(`\r`)
-		case r < 0x20 || r == 0x7f:
-			fmt.Fprintf(&b, `\u%04X`, r)
-		default:
-			b.WriteRune(r)
-		}
-	}
-	b.WriteByte('"')
-	return b.String()
 }

@@ -10,7 +10,6 @@ import (
 	"regexp"
 	"slices"
 	"sort"
-	"strconv"
 	"strings"
 	"testing"
 
@@ -18,6 +17,7 @@ import (
 
 	"github.com/eddyblock/eddyblock/internal/settings"
 	"github.com/eddyblock/eddyblock/internal/testenv"
+	"github.com/eddyblock/eddyblock/internal/tomltext"
 	"github.com/eddyblock/eddyblock/qg"
 	"github.com/eddyblock/eddyblock/qg/block"
 	"github.com/eddyblock/eddyblock/qg/diag"
@@ -456,7 +456,7 @@ func TestUnusedKeysChangeNothing(t *testing.T) {
 func TestDocumentedRoundTrip(t *testing.T) {
 	for _, c := range configVariants() {
 		doc := c.Documented()
-		if !strings.HasPrefix(doc, "# eddyblock configuration of the experiment "+tomlString(c.Name)+".\n") ||
+		if !strings.HasPrefix(doc, "# eddyblock configuration of the experiment "+tomltext.String(c.Name)+".\n") ||
 			!strings.Contains(doc, "# Every key is optional in a file: a missing key keeps the built-in default.\n") ||
 			!strings.Contains(doc, "# "+caution+"\n") {
 			t.Errorf("%s: header missing:\n%s", c.Name, doc[:min(len(doc), 400)])
@@ -781,9 +781,9 @@ func TestDocumentedRangesMatchValidators(t *testing.T) {
 		for _, v := range rangeProbes[phrase] {
 			switch {
 			case strings.HasSuffix(v, "lx"):
-				v = tomlFloat(1.01 * base.Model.Lx)
+				v = tomltext.Float(1.01 * base.Model.Lx)
 			case strings.HasSuffix(v, "ly"):
-				v = tomlFloat(1.01 * base.Model.Ly)
+				v = tomltext.Float(1.01 * base.Model.Ly)
 			}
 			refused(v)
 		}
@@ -837,51 +837,5 @@ func TestUnitsUDUNITS(t *testing.T) {
 	out, err := exec.Command(bin, "-H", "days", "-W", "s").CombinedOutput()
 	if err != nil || !strings.Contains(string(out), "1 days = 86400 s") {
 		t.Errorf("UDUNITS-2 converts days to s as %q (%v), want 86400 s", out, err)
-	}
-}
-
-// TestTOMLFloatExact checks that the floats of Documented read back to the
-// same bits through the TOML decoder, for values that need all 17 digits,
-// the extremes of float64 and negative zero (IEEE 754 binary64; TOML 1.0
-// float syntax).
-func TestTOMLFloatExact(t *testing.T) {
-	for _, f := range []float64{0, math.Copysign(0, -1), 1, 256, 700000, 1e21, 0.1, 1.0 / 3, 2.3148148148148148e-06,
-		1 / (0.5 * 86400), 5e-324, math.SmallestNonzeroFloat64 * 3, math.MaxFloat64, -1.6e-11, 123456789012345678} {
-		s := tomlFloat(f)
-		var v struct {
-			F float64 `toml:"f"`
-		}
-		if _, err := toml.Decode("f = "+s, &v); err != nil {
-			t.Errorf("%v written as %q: %v", f, s, err)
-			continue
-		}
-		if math.Float64bits(v.F) != math.Float64bits(f) {
-			t.Errorf("%v written as %q reads back as %v", f, s, v.F)
-		}
-		if g, err := strconv.ParseFloat(s, 64); err != nil || g != f {
-			t.Errorf("%q: strconv reads %v, %v", s, g, err)
-		}
-	}
-	for _, f := range []float64{math.NaN(), math.Inf(1), math.Inf(-1)} {
-		var v struct {
-			F float64 `toml:"f"`
-		}
-		if _, err := toml.Decode("f = "+tomlFloat(f), &v); err != nil || (v.F != f && !(math.IsNaN(f) && math.IsNaN(v.F))) {
-			t.Errorf("%v: read back as %v, %v", f, v.F, err)
-		}
-	}
-}
-
-// TestTOMLString checks that names with quotes, backslashes, control
-// characters and non-ASCII letters are written as TOML basic strings that
-// read back unchanged.
-func TestTOMLString(t *testing.T) {
-	for _, s := range []string{"", "plain", `a "quoted" \ name`, "tab\tnew\nline\x01\x7f", "ψ and q — a block"} {
-		var v struct {
-			S string `toml:"s"`
-		}
-		if _, err := toml.Decode("s = "+tomlString(s), &v); err != nil || v.S != s {
-			t.Errorf("%q written as %s reads back as %q, %v", s, tomlString(s), v.S, err)
-		}
 	}
 }

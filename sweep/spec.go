@@ -5,7 +5,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"math"
 	"os"
 	"path/filepath"
 	"slices"
@@ -15,6 +14,7 @@ import (
 	"github.com/BurntSushi/toml"
 
 	"github.com/eddyblock/eddyblock/experiment"
+	"github.com/eddyblock/eddyblock/internal/tomltext"
 )
 
 // Spec is a sweep as a sweep file describes it: a base configuration, keys
@@ -354,7 +354,7 @@ func (s *Spec) Source() []byte {
 func literal(v any) string {
 	switch x := v.(type) {
 	case string:
-		return strconv.Quote(x)
+		return tomltext.String(x)
 	case bool:
 		return strconv.FormatBool(x)
 	case int64:
@@ -362,19 +362,7 @@ func literal(v any) string {
 	case int:
 		return strconv.Itoa(x)
 	case float64:
-		switch {
-		case math.IsNaN(x):
-			return "nan"
-		case math.IsInf(x, 1):
-			return "inf"
-		case math.IsInf(x, -1):
-			return "-inf"
-		}
-		f := strconv.FormatFloat(x, 'g', -1, 64)
-		if !strings.ContainsAny(f, ".eEn") {
-			f += ".0"
-		}
-		return f
+		return tomltext.Float(x)
 	case []any:
 		parts := make([]string, len(x))
 		for i, e := range x {
