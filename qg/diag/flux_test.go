@@ -112,6 +112,18 @@ func TestTiltedWaveMomentumFluxAndEVector(t *testing.T) {
 					}
 				}
 			}
+			// the live route a display uses gives the same hand values
+			live := make([]float64, cfg.Nx*cfg.Ny)
+			for _, name := range []string{"ex1", "ey1", "ex2"} {
+				if err := a.EddyField(name, live); err != nil {
+					t.Fatal(err)
+				}
+				for i, v := range live {
+					if math.Abs(v-want[name]) > tol {
+						t.Fatalf("EddyField %s at point %d = %.8g, want %.8g (hand formula)", name, i, v, want[name])
+					}
+				}
+			}
 			ey := tstGet(t, f, "ey1")[0]
 			if tc.j > 0 && !(ey > 0) || tc.j < 0 && !(ey < 0) {
 				t.Errorf("E_y = %g has the wrong sign for the tilt", ey)

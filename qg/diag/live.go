@@ -21,20 +21,32 @@ type liveBuf struct {
 // alone, in work buffers allocated at the first call and kept by the
 // Accumulator, so a live display can refresh it often without allocating:
 // a convergence costs two forward transforms and one inverse, a height
-// tendency twice the forward transforms and the inversion. Without samples
-// dst is set to zero. An unknown name or a dst of the wrong size is an
-// error.
+// tendency twice the forward transforms and the inversion.
+//
+// It also gives, for drawing the eddies over the mean flow, the E-vector
+// components ex1, ey1, ex2, ey2 (m² s⁻², from the co-moments kept per grid
+// point, no transform) and the time-mean streamfunction psi_mean1,
+// psi_mean2 (m² s⁻¹, the prescribed block's included in the fixed mode, one
+// inverse transform there), each equal to the field of that name in Fields.
+//
+// Without samples dst is set to zero. An unknown name or a dst of the wrong
+// size is an error.
 func (a *Accumulator) EddyField(name string, dst []float64) error {
 	np := len(a.tau)
 	if len(dst) != np {
 		return fmt.Errorf("diag: EddyField: dst has %d points, the grid needs %d×%d", len(dst), a.g.Ny, a.g.Nx)
 	}
 	part, layer, height, ok := parseEddyField(name)
-	if !ok {
-		return fmt.Errorf("diag: EddyField: no eddy-forcing field %q (conv, conv_vort, conv_interface, zt, zt_vort or zt_interface with layer 1 or 2)", name)
+	kind, mlayer, mok := parseMeanFlowField(name)
+	if !ok && !mok {
+		return fmt.Errorf("diag: EddyField: no field %q (conv, conv_vort, conv_interface, zt, zt_vort, zt_interface, ex, ey or psi_mean with layer 1 or 2)", name)
 	}
 	if a.n == 0 {
 		clear(dst)
+		return nil
+	}
+	if mok {
+		a.meanFlowField(kind, mlayer, dst)
 		return nil
 	}
 	b := a.liveBuffers()
@@ -93,6 +105,57 @@ func parseEddyField(name string) (part, layer int, height, ok bool) {
 		return 0, 0, false, false
 	}
 	return part, layer, height, true
+}
+
+// parseMeanFlowField splits a name of EddyField's E-vector and mean-flow
+// fields into its kind ('x' for ex, 'y' for ey, 'p' for psi_mean) and its
+// layer index.
+func parseMeanFlowField(name string) (kind byte, layer int, ok bool) {
+	n := len(name)
+	if n < 2 || (name[n-1] != '1' && name[n-1] != '2') {
+		return 0, 0, false
+	}
+	layer = int(name[n-1] - '1')
+	switch name[:n-1] {
+	case "ex":
+		return 'x', layer, true
+	case "ey":
+		return 'y', layer, true
+	case "psi_mean":
+		return 'p', layer, true
+	}
+	return 0, 0, false
+}
+
+// meanFlowField sets dst to an E-vector component or the time-mean
+// streamfunction of layer n, as Fields computes them.
+func (a *Accumulator) meanFlowField(kind byte, n int, dst []float64) {
+	if kind == 'p' {
+		if a.mode == qg.Fixed {
+			a.plan.Inverse(dst, a.blkPsi[n])
+		} else {
+			clear(dst)
+		}
+		for i, v := range a.mPsi[n][:len(dst)] {
+			dst[i] += v
+		}
+		return
+	}
+	w := 1 / float64(a.n)
+	for i := range dst {
+		c := &a.cells[n][i]
+		uu, vv, uv := c.uu*w, c.vv*w, c.uv*w
+		if a.raw {
+			uu += c.mu * c.mu
+			vv += c.mv * c.mv
+			uv += c.mu * c.mv
+		}
+		if kind == 'x' {
+			dst[i] = vv - uu
+		} else {
+			dst[i] = -uv
+		}
+	}
 }
 
 // liveBuffers returns EddyField's work buffers, making them the first time.

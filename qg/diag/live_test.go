@@ -76,6 +76,34 @@ func TestEddyField(t *testing.T) {
 					}
 				}
 			}
+			// E-vectors and the mean streamfunction, for drawing the eddies
+			// over the mean flow: the same as Fields' to rounding.
+			for _, kind := range []string{"ex", "ey", "psi_mean"} {
+				for _, L := range []string{"1", "2"} {
+					name := kind + L
+					x := make([]float64, np)
+					if err := a.EddyField(name, x); err != nil {
+						t.Fatal(err)
+					}
+					want := tstGet(t, f, name)
+					sc := tstMaxAbs(want)
+					if sc == 0 {
+						t.Fatalf("%s: degenerate test, the field is zero", name)
+					}
+					for i := range want {
+						if math.Abs(x[i]-want[i]) > 1e-13*sc {
+							t.Fatalf("%s at %d: EddyField %.15g, Fields %.15g", name, i, x[i], want[i])
+						}
+					}
+				}
+			}
+			if n := testing.AllocsPerRun(5, func() {
+				if err := a.EddyField("psi_mean1", dst); err != nil {
+					t.Fatal(err)
+				}
+			}); n != 0 {
+				t.Errorf("EddyField(psi_mean1) allocates %v times per call", n)
+			}
 			for _, kind := range []string{"conv", "zt"} {
 				for _, L := range []string{"1", "2"} {
 					c, cz, ci := got[kind+L], got[kind+"_vort"+L], got[kind+"_interface"+L]
@@ -122,6 +150,9 @@ func TestEddyFieldErrors(t *testing.T) {
 		{"conv3", 256, `"conv3"`},
 		{"psit1", 256, `"psit1"`},
 		{"zt_heat1", 256, `"zt_heat1"`},
+		{"ex3", 256, `"ex3"`},
+		{"psi_mean", 256, `"psi_mean"`},
+		{"ez1", 256, `"ez1"`},
 		{"", 256, `""`},
 		{"conv1", 100, "100 points"},
 	} {
