@@ -31,6 +31,10 @@ const (
 	rateWindow = time.Second
 	// cflWarn is the fraction of the CFL limit above which the page warns.
 	cflWarn = 0.8
+	// vectorsEvery is the wall time between two updates of the E-vectors
+	// and mean-streamfunction contours over the running mean: a running
+	// mean changes slowly, and the arrows cost a full-resolution repaint.
+	vectorsEvery = 250 * time.Millisecond
 )
 
 // App is the instrument without the browser: the experiment, the frame
@@ -54,6 +58,16 @@ type App struct {
 	outline  []palette.Segment
 	veil     []float64 // sponge rate per grid column over its peak, 0…1
 
+	// The E-vectors and the time-mean streamfunction of the shown layer,
+	// drawn over the running mean when the arrows are on (see vectors.go).
+	ex, ey, psiMean []float64
+	contours        []palette.Segment
+	vecMax          float64 // the largest |E| of the arrows drawn, m² s⁻²
+	vecInterval     float64 // the contour interval of the mean ψ, m² s⁻¹
+	vecSamples      int     // samples behind the arrows drawn
+	vecAt           time.Time
+	vecStale        bool
+
 	paused      bool
 	failure     error  // the StepError that stopped the model, nil while it can run
 	lastError   string // the last error of any kind, "" when none yet
@@ -76,9 +90,10 @@ type App struct {
 	frames     int
 	firstFrame time.Time
 	start      time.Time
-	// liveVer, meanVer and overlayVer are incremented when the live
-	// field, the running-mean field or the overlay must be repainted.
-	liveVer, meanVer, overlayVer int
+	// liveVer, meanVer, overlayVer and vecVer are incremented when the
+	// live field, the running-mean field, the overlay or the arrows over
+	// the running mean must be repainted.
+	liveVer, meanVer, overlayVer, vecVer int
 
 	// workMs and paintMs are moving averages of the wall time of Frame and
 	// Paint, ms: where a frame's time goes, for the speed harness.
@@ -150,6 +165,8 @@ func (a *App) build(s settings, carry bool) error {
 	ns, np := g.Len(), g.Points()
 	a.spec = make([]complex128, ns)
 	a.live, a.mean = make([]float64, np), make([]float64, np)
+	a.ex, a.ey, a.psiMean = make([]float64, np), make([]float64, np), make([]float64, np)
+	a.vecStale, a.vecSamples, a.vecMax, a.vecInterval, a.contours = true, 0, 0, 0, a.contours[:0]
 	a.eddy = [2][]complex128{make([]complex128, ns), make([]complex128, ns)}
 	a.blockPsi, a.blockQ, a.blockGrd, a.blockQG = [2][]complex128{}, [2][]complex128{}, [2][]float64{}, [2][]float64{}
 	a.outline = a.outline[:0]
@@ -191,6 +208,7 @@ func (a *App) build(s settings, carry bool) error {
 	a.liveVer++
 	a.meanVer++
 	a.overlayVer++
+	a.vecVer++
 	return nil
 }
 
@@ -265,7 +283,7 @@ func (a *App) set1(name, value string) error {
 	case display:
 		a.set = s
 		a.meanName = fmt.Sprintf("%s%d", s.Mean, s.Layer)
-		a.meanStale, a.liveStale = true, true
+		a.meanStale, a.liveStale, a.vecStale = true, true, true
 		a.liveHold, a.meanHold = rangeHold{}, rangeHold{}
 	case schedule:
 		a.set = s
@@ -332,7 +350,7 @@ func (a *App) Command(name string) error {
 		a.exp.Diag = d
 		a.sinceSample = 0
 		a.meanSamples, a.summaryN = -1, -1
-		a.meanStale = true
+		a.meanStale, a.vecStale = true, true
 		a.answers, a.indexPlot = answers{}, ""
 		a.meanHold = rangeHold{}
 		a.meanNote = fmt.Sprintf("cleared at day %.1f", a.exp.Model.Time()/86400)
@@ -413,6 +431,7 @@ func (a *App) refresh(now time.Time) {
 		a.meanSamples, a.meanStale = n, false
 		a.meanVer++
 	}
+	a.refreshVectors(now)
 	if n := d.Samples(); n != a.summaryN && now.Sub(a.summaryAt) >= summaryEvery {
 		a.summaryAt, a.summaryN = now, n
 		a.answers = answersOf(d.Summary(), a.exp.HasBlock)

@@ -66,6 +66,7 @@ type settings struct {
 	Live          string // live field: pv, pv_total, psi, height
 	Mean          string // running-mean field: conv, conv_vort, conv_interface, zt, zt_vort, zt_interface
 	Layer         int    // 1 upper, 2 lower
+	Arrows        string // over the running mean: off, or evec (E-vectors over the mean streamfunction)
 
 	// blockShape is the shape the scenario's block has, restored when the
 	// block is switched back on.
@@ -96,7 +97,7 @@ func newSettings(name string, nx int) (settings, error) {
 	if err != nil {
 		return settings{}, err
 	}
-	s := settings{Config: c, Scenario: name, StepsPerFrame: defaultSteps(nx), Live: "pv", Mean: "conv", Layer: 1, blockShape: c.Block.Shape}
+	s := settings{Config: c, Scenario: name, StepsPerFrame: defaultSteps(nx), Live: "pv", Mean: "conv", Layer: 1, Arrows: "off", blockShape: c.Block.Shape}
 	if s.blockShape == block.None || s.blockShape == "" {
 		s.blockShape = block.DipoleShape
 	}
@@ -155,7 +156,7 @@ func controls() []control {
 			if err != nil {
 				return err
 			}
-			n.StepsPerFrame, n.Live, n.Mean, n.Layer = s.StepsPerFrame, s.Live, s.Mean, s.Layer
+			n.StepsPerFrame, n.Live, n.Mean, n.Layer, n.Arrows = s.StepsPerFrame, s.Live, s.Mean, s.Layer, s.Arrows
 			*s = n
 			return nil
 		}, func(s *settings) string { return s.Scenario }),
@@ -278,6 +279,8 @@ func controls() []control {
 			{"conv", "eddy PV flux convergence"}, {"conv_vort", "its vorticity-flux part"}, {"conv_interface", "its interface (heat) flux part"},
 			{"zt", "eddy height tendency"}, {"zt_vort", "its vorticity-flux part"}, {"zt_interface", "its interface (heat) flux part"},
 		}, display, func(s *settings, v string) error { s.Mean = v; return nil }, func(s *settings) string { return s.Mean }),
+		sel("arrows", "Over the mean", []option{{"off", "nothing"}, {"evec", "E-vectors and mean ψ"}}, display,
+			func(s *settings, v string) error { s.Arrows = v; return nil }, func(s *settings) string { return s.Arrows }),
 		sel("layer", "Layer", []option{{"1", "upper"}, {"2", "lower"}}, display,
 			func(s *settings, v string) error { s.Layer = int(v[0] - '0'); return nil },
 			func(s *settings) string { return strconv.Itoa(s.Layer) }),

@@ -33,10 +33,12 @@ type game struct {
 	overlay  *ebiten.Image // the picture's size
 	ovPix    []byte
 	w, h     int
-	drawn    [3]int // the versions on the images: live, mean, overlay
+	drawn    [4]int // the versions on the images: live, mean, overlay, arrows
 	op       ebiten.DrawImageOptions
 	ovPanel  [2]*ebiten.Image // the overlay's part over each panel
-	first    float64          // the page clock (performance.now, ms) at the first frame
+	vectors  *ebiten.Image    // the arrows over the running mean, the panel's size
+	vecPix   []byte
+	first    float64 // the page clock (performance.now, ms) at the first frame
 }
 
 // Update does one frame's work: keyboard shortcuts, then the App's frame.
@@ -84,7 +86,7 @@ func (g *game) Draw(screen *ebiten.Image) {
 		}
 		g.fieldPix = make([]byte, 4*fw*fh)
 		g.fw, g.fh = fw, fh
-		g.drawn = [3]int{-1, -1, -1}
+		g.drawn = [4]int{-1, -1, -1, -1}
 	}
 	if g.overlay == nil || w != g.w || h != g.h {
 		if g.overlay != nil {
@@ -93,20 +95,37 @@ func (g *game) Draw(screen *ebiten.Image) {
 		g.overlay = ebiten.NewImage(w, h)
 		g.ovPix = make([]byte, 4*w*h)
 		g.w, g.h = w, h
-		g.drawn = [3]int{-1, -1, -1}
+		g.drawn = [4]int{-1, -1, -1, -1}
 	}
-	vers := [3]int{a.liveVer, a.meanVer, a.overlayVer}
+	vers := [4]int{a.liveVer, a.meanVer, a.overlayVer, a.vecVer}
 	if vers == g.drawn {
 		return // the screen keeps the last picture
 	}
 	full := vers[2] != g.drawn[2]
+	l := a.Layout(w, h)
+	// the arrows over the running mean, repainted when they changed; a
+	// change of them redraws the running mean's panel
+	vw, vh := l.Panel[1].Dx(), l.Panel[1].Dy()
+	arrows := a.set.Arrows == "evec" && vw > 0 && vh > 0
+	if arrows && (g.vectors == nil || g.vectors.Bounds().Dx() != vw || g.vectors.Bounds().Dy() != vh) {
+		if g.vectors != nil {
+			g.vectors.Deallocate()
+		}
+		g.vectors = ebiten.NewImage(vw, vh)
+		g.vecPix = make([]byte, 4*vw*vh)
+		g.drawn[3] = -1
+	}
+	vecChanged := vers[3] != g.drawn[3]
+	if vecChanged && arrows {
+		a.PaintVectors(g.vecPix, vw, vh)
+		g.vectors.WritePixels(g.vecPix)
+	}
 	for k := range 2 {
 		if full || vers[k] != g.drawn[k] {
 			a.PaintField(&g.pt, k, g.fieldPix)
 			g.field[k].WritePixels(g.fieldPix)
 		}
 	}
-	l := a.Layout(w, h)
 	if full {
 		a.PaintOverlay(g.ovPix, w, h)
 		g.overlay.WritePixels(g.ovPix)
@@ -121,7 +140,7 @@ func (g *game) Draw(screen *ebiten.Image) {
 	// the panels whose field changed, each with its part of the overlay;
 	// the rest of the screen keeps what it has
 	for k := range 2 {
-		if !full && vers[k] == g.drawn[k] {
+		if !full && vers[k] == g.drawn[k] && !(k == 1 && vecChanged) {
 			continue
 		}
 		r := l.Panel[k]
@@ -135,6 +154,12 @@ func (g *game) Draw(screen *ebiten.Image) {
 			g.op.GeoM.Reset()
 			g.op.GeoM.Translate(float64(r.Min.X), float64(r.Min.Y))
 			screen.DrawImage(g.ovPanel[k], &g.op)
+		}
+		if k == 1 && arrows {
+			g.op.Filter = ebiten.FilterNearest
+			g.op.GeoM.Reset()
+			g.op.GeoM.Translate(float64(r.Min.X), float64(r.Min.Y))
+			screen.DrawImage(g.vectors, &g.op)
 		}
 	}
 	if full {

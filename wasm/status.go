@@ -165,6 +165,7 @@ func (a *App) Status() Status {
 	t["mean_title"] = mt + ", " + layer + ", running mean"
 	t["mean_units"] = mu
 	t["mean_lo"], t["mean_hi"] = rangeText(st.MeanRange)
+	t["arrows"] = a.vectorsText()
 	return st
 }
 

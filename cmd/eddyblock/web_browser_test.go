@@ -65,11 +65,13 @@ type browserStatus struct {
 	Scenario       string            `json:"scenario"`
 	Grid           string            `json:"grid"`
 	Settings       map[string]string `json:"settings"`
+	Text           map[string]string `json:"text"`
 }
 
 // TestBrowserDemo drives the demo in headless Chromium as a user would:
 // the page loads without console errors or exceptions; the model's picture
-// is not blank and changes; the model day advances; with the source's
+// is not blank and changes; the model day advances; the E-vectors switched
+// on draw arrows over the running mean with their legend; with the source's
 // strength at zero the eddy energy decays; a scenario switch empties the
 // running mean; a refused value shows the library's error while the model
 // runs on; a forced blow-up stops the model with its message.
@@ -197,6 +199,23 @@ func TestBrowserDemo(t *testing.T) {
 	if !(e0 > 0) {
 		t.Fatalf("no eddy energy at day %g: %g", st.Day, e0)
 	}
+	// E-vectors over the running mean: the legend gives their scale and
+	// near-black arrow ink appears in the running mean's half of the picture
+	before := darkPixels(shot("browser-no-arrows.png"), true)
+	if msg := set("arrows", "evec"); msg != "" {
+		t.Fatalf("arrows on: %s", msg)
+	}
+	st = wait("the arrows' legend", 30*time.Second, func(s browserStatus) bool {
+		return strings.Contains(s.Text["arrows"], "longest arrow")
+	})
+	time.Sleep(time.Second)
+	after := darkPixels(shot("browser-arrows.png"), true)
+	t.Logf("arrows: %q; near-black pixels in the right half %d without, %d with", st.Text["arrows"], before, after)
+	if after < before+50 || after < 2*before {
+		t.Errorf("with the E-vectors on, the running mean's half has %d near-black pixels, %d without: no arrows drawn", after, before)
+	}
+	checkConsole("with the arrows on")
+
 	if msg := set("train_amplitude", "0"); msg != "" {
 		t.Fatalf("strength 0: %s", msg)
 	}
@@ -272,6 +291,27 @@ func distinctColours(img image.Image) int {
 		}
 	}
 	return len(seen)
+}
+
+// darkPixels counts the near-black pixels (every channel under 32: the
+// arrows' ink, not the block's grey outline) of an image, or of its right
+// half.
+func darkPixels(img image.Image, rightHalf bool) int {
+	b := img.Bounds()
+	x0 := b.Min.X
+	if rightHalf {
+		x0 = (b.Min.X + b.Max.X) / 2
+	}
+	n := 0
+	for y := b.Min.Y; y < b.Max.Y; y++ {
+		for x := x0; x < b.Max.X; x++ {
+			r, g, bl, _ := img.At(x, y).RGBA()
+			if r>>8 < 32 && g>>8 < 32 && bl>>8 < 32 {
+				n++
+			}
+		}
+	}
+	return n
 }
 
 // changedFraction is the fraction of pixels whose colour differs.

@@ -289,7 +289,7 @@ func (t niceTicks) Ticks(lo, hi float64) []plot.Tick {
 	if n == 0 {
 		n = 5
 	}
-	step := niceStep(hi-lo, n)
+	step := palette.NiceStep(hi-lo, n)
 	minor := step / 5
 	if m := step / math.Pow(10, math.Floor(math.Log10(step))); m == 2 {
 		minor = step / 4

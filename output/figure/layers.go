@@ -69,17 +69,4 @@ func lineStyle(c color.Color, width float64, dashed bool) draw.LineStyle {
 	return st
 }
 
-// niceStep returns a step of 1, 2 or 5 times a power of ten close to
-// span/n.
-func niceStep(span float64, n int) float64 {
-	raw := span / float64(n)
-	p := math.Pow(10, math.Floor(math.Log10(raw)))
-	for _, m := range []float64{1, 2, 5, 10} {
-		if m*p >= raw*0.75 {
-			return m * p
-		}
-	}
-	return 10 * p
-}
-
 func hypot(x, y float64) float64 { return math.Hypot(x, y) }

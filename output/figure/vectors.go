@@ -139,7 +139,7 @@ func (v *Vectors) Draw(s Size) (*image.RGBA, error) {
 		ext := palette.MinMaxRange(v.Stream.Values)
 		iv := v.Interval
 		if iv == 0 && ext.Hi > ext.Lo {
-			iv = niceStep(ext.Hi-ext.Lo, 12)
+			iv = palette.NiceStep(ext.Hi-ext.Lo, 12)
 		}
 		if iv > 0 {
 			var neg, pos, zero []float64

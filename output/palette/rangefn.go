@@ -96,3 +96,20 @@ func percentileSorted(x []float64, p float64) float64 {
 	f := pos - float64(i)
 	return x[i] + f*(x[i+1]-x[i])
 }
+
+// NiceStep returns a step of 1, 2 or 5 times a power of ten close to
+// span/n (at least 0.75 span/n), for contour intervals and axis ticks;
+// 0 when span/n is not positive and finite.
+func NiceStep(span float64, n int) float64 {
+	raw := span / float64(n)
+	if !(raw > 0) || math.IsInf(raw, 0) {
+		return 0
+	}
+	p := math.Pow(10, math.Floor(math.Log10(raw)))
+	for _, m := range []float64{1, 2, 5, 10} {
+		if m*p >= raw*0.75 {
+			return m * p
+		}
+	}
+	return 10 * p
+}

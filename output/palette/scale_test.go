@@ -251,3 +251,20 @@ func TestDistinct(t *testing.T) {
 		t.Error("Distinct does not cycle")
 	}
 }
+
+// TestNiceStep checks the 1-2-5 series of steps (common practice for axis
+// ticks and contour intervals): a step of 1, 2 or 5 times a power of ten,
+// the smallest of them at least 3/4 of span/n.
+func TestNiceStep(t *testing.T) {
+	for _, tc := range []struct {
+		span float64
+		n    int
+		want float64
+	}{
+		{10, 10, 1}, {3, 10, 0.5}, {1.5, 10, 0.2}, {7, 10, 1}, {1.5e7, 12, 1e6}, {2.4e7, 12, 2e6}, {-1, 10, 0}, {0, 10, 0}, {math.Inf(1), 10, 0},
+	} {
+		if got := NiceStep(tc.span, tc.n); math.Abs(got-tc.want) > 1e-12*tc.want {
+			t.Errorf("NiceStep(%g, %d) = %g, want %g", tc.span, tc.n, got, tc.want)
+		}
+	}
+}
