@@ -85,7 +85,7 @@ func TestExamplesRun(t *testing.T) {
 		{"attribution", []string{"(b) linear, anomaly alone", "(c) linear, anomaly + Δ eddy forcing"}},
 		{"driver", []string{"day 10: upper-layer height peaks at +"}},
 		{"heating", []string{"at the heating patch:", "response"}},
-		{"spinup", []string{"day  10", "day 100"}},
+		{"spinup", []string{"day  20", "day 200", "days 140–200: energy"}},
 		{"sweep", []string{"block height", "6 of 6 members done"}},
 		{"tracksweep", []string{"track offset", "3000 km"}},
 	} {
