@@ -211,10 +211,22 @@ func claimDir(dir string, rec *record, source []byte) error {
 		if err != nil {
 			return fail(err)
 		}
+		// Another process may have linked its record (and written the
+		// copy) between the read above and this listing: then read again.
+		raced, foreign := false, false
 		for _, e := range ents {
-			if !strings.HasPrefix(e.Name(), tmpPrefix) {
-				return fail(fmt.Errorf("is not empty and holds no sweep (no %s): give a new or an empty directory", RecordFile))
+			switch name := e.Name(); {
+			case name == RecordFile:
+				raced = true
+			case !strings.HasPrefix(name, tmpPrefix):
+				foreign = true
 			}
+		}
+		if raced {
+			continue
+		}
+		if foreign {
+			return fail(fmt.Errorf("is not empty and holds no sweep (no %s): give a new or an empty directory", RecordFile))
 		}
 		// write the record whole under a temporary name, then link it
 		// into place: the link fails if another process was first
