@@ -53,26 +53,30 @@ func TestEddyField(t *testing.T) {
 				}
 			}
 			f := a.Fields()
+			// same computes one field with EddyField and compares it with
+			// Fields' field of that name, to tol relative to its largest value
+			same := func(name string, tol float64) []float64 {
+				x := make([]float64, np)
+				if err := a.EddyField(name, x); err != nil {
+					t.Fatal(err)
+				}
+				want := tstGet(t, f, name)
+				sc := tstMaxAbs(want)
+				if sc == 0 {
+					t.Fatalf("%s: degenerate test, the field is zero", name)
+				}
+				for i := range want {
+					if math.Abs(x[i]-want[i]) > tol*sc {
+						t.Fatalf("%s at %d: EddyField %.15g, Fields %.15g", name, i, x[i], want[i])
+					}
+				}
+				return x
+			}
 			got := map[string][]float64{}
 			for _, kind := range []string{"conv", "zt"} {
 				for _, part := range []string{"", "_vort", "_interface"} {
 					for _, L := range []string{"1", "2"} {
-						name := kind + part + L
-						x := make([]float64, np)
-						if err := a.EddyField(name, x); err != nil {
-							t.Fatal(err)
-						}
-						want := tstGet(t, f, name)
-						sc := tstMaxAbs(want)
-						if sc == 0 {
-							t.Fatalf("%s: degenerate test, the field is zero", name)
-						}
-						for i := range want {
-							if math.Abs(x[i]-want[i]) > 1e-11*sc {
-								t.Fatalf("%s at %d: EddyField %.15g, Fields %.15g", name, i, x[i], want[i])
-							}
-						}
-						got[name] = x
+						got[kind+part+L] = same(kind+part+L, 1e-11)
 					}
 				}
 			}
@@ -80,21 +84,7 @@ func TestEddyField(t *testing.T) {
 			// over the mean flow: the same as Fields' to rounding.
 			for _, kind := range []string{"ex", "ey", "psi_mean"} {
 				for _, L := range []string{"1", "2"} {
-					name := kind + L
-					x := make([]float64, np)
-					if err := a.EddyField(name, x); err != nil {
-						t.Fatal(err)
-					}
-					want := tstGet(t, f, name)
-					sc := tstMaxAbs(want)
-					if sc == 0 {
-						t.Fatalf("%s: degenerate test, the field is zero", name)
-					}
-					for i := range want {
-						if math.Abs(x[i]-want[i]) > 1e-13*sc {
-							t.Fatalf("%s at %d: EddyField %.15g, Fields %.15g", name, i, x[i], want[i])
-						}
-					}
+					same(kind+L, 1e-13)
 				}
 			}
 			if n := testing.AllocsPerRun(5, func() {
