@@ -9,7 +9,6 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
-	"strings"
 	"sync"
 	"testing"
 
@@ -164,21 +163,7 @@ func TestAttributionFilesRoundTrip(t *testing.T) {
 func TestAttributionNcdump(t *testing.T) {
 	ncdump := testenv.Tool(t, "ncdump", "Debian package netcdf-bin")
 	dir, _ := attributionDir(t)
-	for _, f := range []string{AttributionFile, ControlForcingFile, AnomalyForcingFile} {
-		path := filepath.Join(dir, f)
-		for _, args := range [][]string{{"-k"}, {"-h"}, {}} {
-			out, err := exec.Command(ncdump, append(args, path)...).CombinedOutput()
-			if err != nil {
-				t.Fatalf("ncdump %v %s: %v\n%s", args, f, err, out)
-			}
-			if len(args) == 1 && args[0] == "-k" && strings.TrimSpace(string(out)) != "64-bit offset" {
-				t.Errorf("ncdump -k %s: %q, want 64-bit offset", f, out)
-			}
-			if len(args) == 1 && args[0] == "-h" && !strings.Contains(string(out), `:Conventions = "CF-1.10"`) {
-				t.Errorf("ncdump -h %s: no CF-1.10 Conventions attribute", f)
-			}
-		}
-	}
+	ncdumpEvery(t, ncdump, dir, AttributionFile, ControlForcingFile, AnomalyForcingFile)
 }
 
 // TestAttributionXarray opens the files with xarray through the netCDF4

@@ -174,7 +174,15 @@ func TestNcdumpReadsEveryFile(t *testing.T) {
 	ncdump := testenv.Tool(t, "ncdump", "Debian package netcdf-bin")
 	dir := filepath.Join(t.TempDir(), "out")
 	runTo(t, smallConfig(12), dir, false)
-	for _, f := range []string{MeansFile, SnapshotsFile, SeriesNCFile} {
+	ncdumpEvery(t, ncdump, dir, MeansFile, SnapshotsFile, SeriesNCFile)
+}
+
+// ncdumpEvery runs ncdump -k, -h and with no option (all the data) over
+// each named file in dir: each must be read, be the 64-bit offset format
+// and declare the CF-1.10 conventions.
+func ncdumpEvery(t *testing.T, ncdump, dir string, files ...string) {
+	t.Helper()
+	for _, f := range files {
 		path := filepath.Join(dir, f)
 		for _, args := range [][]string{{"-k"}, {"-h"}, {}} {
 			out, err := exec.Command(ncdump, append(args, path)...).CombinedOutput()

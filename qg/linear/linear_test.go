@@ -144,16 +144,7 @@ func TestResponseIsLinear(t *testing.T) {
 	}
 	g := probe.Grid()
 	probe.Close()
-	basic := [2][]float64{make([]float64, g.Points()), make([]float64, g.Points())}
-	for y := range g.Ny {
-		for x := range g.Nx {
-			dx := qg.PeriodicDistance(g.X(x), 8e6, g.Lx) / 1e6
-			dyh := qg.PeriodicDistance(g.Y(y), 5e6, g.Ly) / 1e6
-			dyl := qg.PeriodicDistance(g.Y(y), 3e6, g.Ly) / 1e6
-			v := 3e6 * (math.Exp(-dx*dx-dyh*dyh) - math.Exp(-dx*dx-dyl*dyl))
-			basic[0][y*g.Nx+x], basic[1][y*g.Nx+x] = v, 0.6*v
-		}
-	}
+	basic := dipoleBasic(g)
 	l, err := New(c, basic)
 	if err != nil {
 		t.Fatal(err)
@@ -339,16 +330,7 @@ func TestSolveOverSpan(t *testing.T) {
 	c.Drag = 1 / 86400.0
 	c.Sponge = qg.Sponge{Rate: 2 / 86400.0, Width: 4e6, X: 1.4e7}
 	c.ScaleSelective = qg.ScaleSelective{Kind: qg.CutoffFilter, FilterTime: 6 * 3600, FilterCutoff: 0.65, FilterOrder: 4}
-	basic := [2][]float64{make([]float64, g.Points()), make([]float64, g.Points())}
-	for y := range g.Ny {
-		for x := range g.Nx {
-			dx := qg.PeriodicDistance(g.X(x), 8e6, g.Lx) / 1e6
-			dyh := qg.PeriodicDistance(g.Y(y), 5e6, g.Ly) / 1e6
-			dyl := qg.PeriodicDistance(g.Y(y), 3e6, g.Ly) / 1e6
-			v := 3e6 * (math.Exp(-dx*dx-dyh*dyh) - math.Exp(-dx*dx-dyl*dyl))
-			basic[0][y*g.Nx+x], basic[1][y*g.Nx+x] = v, 0.6*v
-		}
-	}
+	basic := dipoleBasic(g)
 	b, err := New(c, basic)
 	if err != nil {
 		t.Fatal(err)
@@ -370,4 +352,22 @@ func TestSolveOverSpan(t *testing.T) {
 	if d, s := diffNorm(q[1], q[0]); d > 1e-8*s {
 		t.Errorf("the response over a span of 24 steps differs from the one-step route by %.2g relative", d/s)
 	}
+}
+
+// dipoleBasic is a basic-state streamfunction with a dipole of Gaussian
+// lobes (3e6 m² s⁻¹, e-folding 1000 km) centred at x = 8000 km, a high at
+// y = 5000 km over a low at 3000 km, 0.6 times as strong in the lower
+// layer.
+func dipoleBasic(g *qg.Grid) [2][]float64 {
+	basic := [2][]float64{make([]float64, g.Points()), make([]float64, g.Points())}
+	for y := range g.Ny {
+		for x := range g.Nx {
+			dx := qg.PeriodicDistance(g.X(x), 8e6, g.Lx) / 1e6
+			dyh := qg.PeriodicDistance(g.Y(y), 5e6, g.Ly) / 1e6
+			dyl := qg.PeriodicDistance(g.Y(y), 3e6, g.Ly) / 1e6
+			v := 3e6 * (math.Exp(-dx*dx-dyh*dyh) - math.Exp(-dx*dx-dyl*dyl))
+			basic[0][y*g.Nx+x], basic[1][y*g.Nx+x] = v, 0.6*v
+		}
+	}
+	return basic
 }
